@@ -1,0 +1,127 @@
+//! The cost report every circuit gets: qubits, gate counts, depth, Toffoli depth, T-count.
+
+use super::Circuit;
+use serde::Serialize;
+use std::collections::BTreeMap;
+use std::fmt;
+
+/// T gates in one Toffoli with the 7-T decomposition (Amy, Maslov, Mosca, Roetteler 2013).
+pub const T_PER_TOFFOLI: usize = 7;
+
+/// Cost of a circuit before and after lowering, as design.md defines it.
+#[derive(Clone, Debug, PartialEq, Eq, Serialize)]
+pub struct Cost {
+    /// All lines of the lowered circuit, ancillae included.
+    pub qubits: usize,
+    /// Gates before lowering, keyed by number of controls.
+    pub mct: BTreeMap<usize, usize>,
+    /// Two-control gates after lowering.
+    pub toffoli: usize,
+    /// One-control gates after lowering.
+    pub cnot: usize,
+    /// Zero-control gates after lowering.
+    pub not: usize,
+    /// Layers after lowering; gates on disjoint lines share a layer.
+    pub depth: usize,
+    /// Layers counting only Toffoli gates.
+    pub toffoli_depth: usize,
+    /// 7 per Toffoli.
+    pub t_count: usize,
+}
+
+impl Cost {
+    /// Measures a circuit: `mct` from `before`, everything else from `lowered`.
+    ///
+    /// Gates of `lowered` with three or more controls (there are none after
+    /// [`crate::lower()`]) count in none of `toffoli`, `cnot` and `not`.
+    pub fn measure(before: &Circuit, lowered: &Circuit) -> Cost {
+        let mut mct = BTreeMap::new();
+        for g in before.gates() {
+            *mct.entry(g.controls().len()).or_insert(0) += 1;
+        }
+        let count = |k: usize| {
+            lowered
+                .gates()
+                .iter()
+                .filter(|g| g.controls().len() == k)
+                .count()
+        };
+        let toffoli = count(2);
+        let (depth, toffoli_depth) = depths(lowered);
+        Cost {
+            qubits: lowered.width(),
+            mct,
+            toffoli,
+            cnot: count(1),
+            not: count(0),
+            depth,
+            toffoli_depth,
+            t_count: toffoli * T_PER_TOFFOLI,
+        }
+    }
+
+    /// Gates before lowering, in all.
+    pub fn mct_total(&self) -> usize {
+        self.mct.values().sum()
+    }
+}
+
+/// Greedy layering: each gate goes one layer after the latest gate on any of its lines.
+fn depths(c: &Circuit) -> (usize, usize) {
+    let mut level = vec![0usize; c.width()];
+    let mut tlevel = vec![0usize; c.width()];
+    let (mut depth, mut tdepth) = (0, 0);
+    for g in c.gates() {
+        let lines = g
+            .controls()
+            .iter()
+            .map(|x| x.line.index())
+            .chain(std::iter::once(g.target().index()));
+        let (mut l, mut t) = (0, 0);
+        for i in lines.clone() {
+            l = l.max(level[i]);
+            t = t.max(tlevel[i]);
+        }
+        l += 1;
+        if g.controls().len() == 2 {
+            t += 1;
+        }
+        for i in lines {
+            level[i] = l;
+            tlevel[i] = t;
+        }
+        depth = depth.max(l);
+        tdepth = tdepth.max(t);
+    }
+    (depth, tdepth)
+}
+
+impl fmt::Display for Cost {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        let mct: Vec<String> = self
+            .mct
+            .iter()
+            .map(|(k, n)| format!("{n}x{k}"))
+            .collect();
+        writeln!(
+            f,
+            "  qubits {:<6} toffoli {:<7} cnot {:<7} not {:<6}",
+            self.qubits, self.toffoli, self.cnot, self.not
+        )?;
+        writeln!(
+            f,
+            "  depth {:<7} toffoli depth {:<5} t-count {}",
+            self.depth, self.toffoli_depth, self.t_count
+        )?;
+        write!(
+            f,
+            "  before lowering: {} gates (count x controls: {})",
+            self.mct_total(),
+            if mct.is_empty() {
+                "none".to_string()
+            } else {
+                mct.join(", ")
+            }
+        )
+    }
+}

@@ -1,0 +1,291 @@
+//! Lines, multi-controlled Toffoli (MCT) gates with mixed-polarity controls, and circuits.
+
+mod cost;
+
+pub use cost::Cost;
+
+use serde::Serialize;
+use std::fmt;
+
+/// Index of a line (qubit) in a [`Circuit`].
+#[derive(Clone, Copy, Debug, PartialEq, Eq, PartialOrd, Ord, Hash, Serialize)]
+pub struct Line(pub u32);
+
+impl Line {
+    /// The index as a `usize`, for slicing.
+    pub fn index(self) -> usize {
+        self.0 as usize
+    }
+}
+
+/// What a line is for; the verifier never reads this, it binds lines by register name.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "lowercase")]
+pub enum Role {
+    /// Read but left unchanged (`x` of an oracle).
+    Input,
+    /// Receives `y XOR f(x)`.
+    Output,
+    /// Transformed in place (a permutation's lines, the sum register of an adder).
+    Data,
+    /// Starts at 0 and must end at 0.
+    Ancilla,
+}
+
+/// One line of a circuit: the register it belongs to, its index there, its role and a label.
+#[derive(Clone, Debug, PartialEq, Eq, Serialize)]
+pub struct LineInfo {
+    /// Register name as written to OpenQASM (`x`, `y`, `anc`, `a`, ...).
+    pub register: String,
+    /// Index inside the register.
+    pub index: u32,
+    /// What the line is for.
+    pub role: Role,
+    /// Human label, usually the spec's variable name.
+    pub label: String,
+}
+
+/// A control of a gate: the gate fires only if `line` has the value `positive`.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, PartialOrd, Ord, Hash, Serialize)]
+pub struct Control {
+    /// The controlling line.
+    pub line: Line,
+    /// `true` fires on 1, `false` fires on 0.
+    pub positive: bool,
+}
+
+impl Control {
+    /// A control that fires on 1.
+    pub fn pos(line: u32) -> Self {
+        Control {
+            line: Line(line),
+            positive: true,
+        }
+    }
+    /// A control that fires on 0.
+    pub fn neg(line: u32) -> Self {
+        Control {
+            line: Line(line),
+            positive: false,
+        }
+    }
+}
+
+/// A multi-controlled NOT: flips `target` when every control holds.
+///
+/// Controls are kept sorted by line and never include the target, so two gates
+/// that act alike compare equal.
+#[derive(Clone, Debug, PartialEq, Eq, Hash, Serialize)]
+pub struct Gate {
+    controls: Vec<Control>,
+    target: Line,
+}
+
+impl Gate {
+    /// Builds a gate; controls are sorted. Returns `None` when a control is on the
+    /// target line or one line is used twice as a control.
+    pub fn new(mut controls: Vec<Control>, target: Line) -> Option<Self> {
+        controls.sort();
+        let clash = controls.iter().any(|c| c.line == target)
+            || controls.windows(2).any(|w| w[0].line == w[1].line);
+        (!clash).then_some(Gate { controls, target })
+    }
+
+    /// A NOT gate.
+    pub fn not(target: u32) -> Self {
+        Gate {
+            controls: Vec::new(),
+            target: Line(target),
+        }
+    }
+
+    /// A CNOT gate with a positive control.
+    pub fn cnot(control: u32, target: u32) -> Self {
+        Gate::new(vec![Control::pos(control)], Line(target)).expect("control differs from target")
+    }
+
+    /// A Toffoli gate with two positive controls.
+    pub fn toffoli(a: u32, b: u32, target: u32) -> Self {
+        Gate::new(vec![Control::pos(a), Control::pos(b)], Line(target))
+            .expect("distinct lines in a Toffoli")
+    }
+
+    /// The controls, sorted by line.
+    pub fn controls(&self) -> &[Control] {
+        &self.controls
+    }
+
+    /// The target line.
+    pub fn target(&self) -> Line {
+        self.target
+    }
+
+    /// Whether `line` is a control of this gate.
+    pub fn has_control(&self, line: Line) -> bool {
+        self.controls.iter().any(|c| c.line == line)
+    }
+
+    /// Whether the gate touches `line` as control or target.
+    pub fn touches(&self, line: Line) -> bool {
+        self.target == line || self.has_control(line)
+    }
+
+    /// Two gates commute when neither target is a control of the other.
+    pub fn commutes_with(&self, other: &Gate) -> bool {
+        !self.has_control(other.target) && !other.has_control(self.target)
+    }
+
+    /// Returns the same gate with the polarity of control `k` flipped.
+    pub fn with_flipped_control(&self, k: usize) -> Gate {
+        let mut g = self.clone();
+        g.controls[k].positive = !g.controls[k].positive;
+        g
+    }
+
+    /// Applies the gate to a basis state held as a bit mask (line `i` is bit `i`).
+    pub fn apply(&self, state: u64) -> u64 {
+        let fires = self
+            .controls
+            .iter()
+            .all(|c| ((state >> c.line.0) & 1 == 1) == c.positive);
+        if fires {
+            state ^ (1u64 << self.target.0)
+        } else {
+            state
+        }
+    }
+}
+
+/// A reversible circuit: named lines and a gate list applied left to right.
+#[derive(Clone, Debug, PartialEq, Eq, Serialize)]
+pub struct Circuit {
+    lines: Vec<LineInfo>,
+    gates: Vec<Gate>,
+}
+
+/// A gate referred to a line that the circuit does not have.
+#[derive(Debug, thiserror::Error, PartialEq, Eq)]
+#[error("gate {gate} uses line {line}, but the circuit has {lines} lines")]
+pub struct LineOutOfRange {
+    /// Index of the offending gate.
+    pub gate: usize,
+    /// The line it named.
+    pub line: u32,
+    /// How many lines there are.
+    pub lines: usize,
+}
+
+impl Circuit {
+    /// An empty circuit on the given lines.
+    pub fn new(lines: Vec<LineInfo>) -> Self {
+        Circuit {
+            lines,
+            gates: Vec::new(),
+        }
+    }
+
+    /// Builds a circuit and checks every gate's lines.
+    pub fn from_parts(lines: Vec<LineInfo>, gates: Vec<Gate>) -> Result<Self, LineOutOfRange> {
+        for (k, g) in gates.iter().enumerate() {
+            let worst = g
+                .controls
+                .iter()
+                .map(|c| c.line.0)
+                .chain(std::iter::once(g.target.0))
+                .max()
+                .unwrap_or(0);
+            if worst as usize >= lines.len() {
+                return Err(LineOutOfRange {
+                    gate: k,
+                    line: worst,
+                    lines: lines.len(),
+                });
+            }
+        }
+        Ok(Circuit { lines, gates })
+    }
+
+    /// Appends a gate. Panics in debug builds if it names a missing line.
+    pub fn push(&mut self, gate: Gate) {
+        debug_assert!(gate.target.index() < self.lines.len());
+        debug_assert!(gate
+            .controls
+            .iter()
+            .all(|c| c.line.index() < self.lines.len()));
+        self.gates.push(gate);
+    }
+
+    /// Adds a line and returns its index.
+    pub fn add_line(&mut self, info: LineInfo) -> Line {
+        self.lines.push(info);
+        Line(self.lines.len() as u32 - 1)
+    }
+
+    /// The lines.
+    pub fn lines(&self) -> &[LineInfo] {
+        &self.lines
+    }
+
+    /// The gates in the order they apply.
+    pub fn gates(&self) -> &[Gate] {
+        &self.gates
+    }
+
+    /// Replaces the gate list (same lines).
+    pub fn set_gates(&mut self, gates: Vec<Gate>) {
+        self.gates = gates;
+    }
+
+    /// Number of lines.
+    pub fn width(&self) -> usize {
+        self.lines.len()
+    }
+
+    /// Lines of one register, in index order.
+    pub fn register(&self, name: &str) -> Vec<Line> {
+        let mut found: Vec<(u32, Line)> = self
+            .lines
+            .iter()
+            .enumerate()
+            .filter(|(_, l)| l.register == name)
+            .map(|(i, l)| (l.index, Line(i as u32)))
+            .collect();
+        found.sort();
+        found.into_iter().map(|(_, l)| l).collect()
+    }
+
+    /// Register names in order of first appearance, with their sizes.
+    pub fn registers(&self) -> Vec<(String, usize)> {
+        let mut out: Vec<(String, usize)> = Vec::new();
+        for l in &self.lines {
+            match out.iter_mut().find(|(n, _)| *n == l.register) {
+                Some((_, size)) => *size += 1,
+                None => out.push((l.register.clone(), 1)),
+            }
+        }
+        out
+    }
+
+    /// The largest number of controls on any gate.
+    pub fn max_controls(&self) -> usize {
+        self.gates
+            .iter()
+            .map(|g| g.controls.len())
+            .max()
+            .unwrap_or(0)
+    }
+
+    /// Runs the circuit on one basis state (at most 64 lines); for tests and small tools.
+    pub fn simulate(&self, state: u64) -> u64 {
+        self.gates.iter().fold(state, |s, g| g.apply(s))
+    }
+}
+
+impl fmt::Display for Gate {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        for c in &self.controls {
+            write!(f, "{}{} ", if c.positive { "" } else { "!" }, c.line.0)?;
+        }
+        write!(f, "-> {}", self.target.0)
+    }
+}

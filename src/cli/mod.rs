@@ -1,0 +1,396 @@
+//! Command-line front end: arguments, files, printing and exit codes. No circuit logic lives here.
+
+use clap::{Parser, Subcommand, ValueEnum};
+use indicatif::{ProgressBar, ProgressStyle};
+use oraculum::{
+    build_with_progress, listing, parse_spec, read_qasm, verify_with_progress, BuildOptions,
+    Circuit, Cost, LocatedError, Method, Spec, SynthLimits, Verdict, VerifyError, VerifyOptions,
+    DEFAULT_MAX_STATES,
+};
+use serde_json::json;
+use std::io::{IsTerminal, Write};
+use std::path::{Path, PathBuf};
+use std::time::Instant;
+
+/// Exit codes, as design.md lists them.
+pub mod code {
+    /// Done (and verified, unless verification was skipped on request).
+    pub const DONE: i32 = 0;
+    /// Verification refuted the circuit.
+    pub const REFUTED: i32 = 1;
+    /// Bad input or usage.
+    pub const BAD_INPUT: i32 = 2;
+    /// A resource limit refused the job.
+    pub const LIMIT: i32 = 3;
+}
+
+const AFTER_HELP: &str = "Exit codes: 0 done and verified, 1 verification refuted the circuit, \
+2 bad input or usage, 3 a resource limit refused the job.";
+
+#[derive(Parser)]
+#[command(
+    name = "oraculum",
+    version,
+    about = "Turns classical functions into verified reversible oracles, written as OpenQASM 2.",
+    after_help = AFTER_HELP
+)]
+struct Cli {
+    #[command(subcommand)]
+    command: Command,
+}
+
+#[derive(Clone, Copy, ValueEnum)]
+enum Format {
+    /// OpenQASM 2 with x, cx and ccx.
+    Qasm,
+    /// A plain listing of lines and gates.
+    Text,
+}
+
+#[derive(Subcommand)]
+enum Command {
+    /// Synthesize a spec, lower it to Toffoli gates, verify it, and write it.
+    Synth {
+        /// The spec file (TOML).
+        spec: PathBuf,
+        /// Where to write the circuit; without it the circuit goes to standard output.
+        #[arg(short, long)]
+        output: Option<PathBuf>,
+        /// Synthesis method (see `oraculum methods`).
+        #[arg(short, long, default_value = "auto")]
+        method: String,
+        /// Print the report as one JSON object.
+        #[arg(long)]
+        json: bool,
+        /// Skip verification; the report says the circuit was not checked.
+        #[arg(long)]
+        no_verify: bool,
+        /// Output format of the circuit.
+        #[arg(long, value_enum, default_value = "qasm")]
+        format: Format,
+        #[command(flatten)]
+        limits: LimitArgs,
+    },
+    /// Verify an OpenQASM 2 circuit against a spec.
+    Verify {
+        /// The circuit (OpenQASM 2 with x, cx, ccx).
+        circuit: PathBuf,
+        /// The spec it should realize.
+        #[arg(long)]
+        spec: PathBuf,
+        /// Print the verdict as one JSON object.
+        #[arg(long)]
+        json: bool,
+        /// Most basis states to simulate.
+        #[arg(long, default_value_t = DEFAULT_MAX_STATES)]
+        max_states: u64,
+    },
+    /// Print the cost report of an OpenQASM 2 circuit.
+    Cost {
+        /// The circuit (OpenQASM 2 with x, cx, ccx).
+        circuit: PathBuf,
+        /// Print the report as one JSON object.
+        #[arg(long)]
+        json: bool,
+    },
+    /// List the synthesis methods.
+    Methods,
+}
+
+#[derive(clap::Args)]
+struct LimitArgs {
+    /// Most basis states the verifier simulates (default 2^30).
+    #[arg(long, default_value_t = DEFAULT_MAX_STATES)]
+    max_states: u64,
+    /// Most inputs a truth-table method expands.
+    #[arg(long, default_value_t = SynthLimits::default().max_table_inputs)]
+    max_inputs: usize,
+    /// Most gates before lowering.
+    #[arg(long, default_value_t = SynthLimits::default().max_gates)]
+    max_gates: usize,
+}
+
+/// A reason to stop, with its exit code.
+struct Failure {
+    code: i32,
+    message: String,
+}
+
+impl Failure {
+    fn bad(message: impl Into<String>) -> Self {
+        Failure {
+            code: code::BAD_INPUT,
+            message: message.into(),
+        }
+    }
+}
+
+impl From<LocatedError> for Failure {
+    fn from(e: LocatedError) -> Self {
+        Failure::bad(e.to_string())
+    }
+}
+
+/// Runs the command line and returns the exit code.
+pub fn run() -> i32 {
+    let cli = match Cli::try_parse() {
+        Ok(c) => c,
+        Err(e) => {
+            let _ = e.print();
+            return if e.use_stderr() { code::BAD_INPUT } else { code::DONE };
+        }
+    };
+    match dispatch(cli.command) {
+        Ok(c) => c,
+        Err(f) => {
+            eprintln!("error: {}", f.message);
+            f.code
+        }
+    }
+}
+
+fn dispatch(cmd: Command) -> Result<i32, Failure> {
+    match cmd {
+        Command::Synth {
+            spec,
+            output,
+            method,
+            json,
+            no_verify,
+            format,
+            limits,
+        } => synth(&spec, output.as_deref(), &method, json, no_verify, format, &limits),
+        Command::Verify {
+            circuit,
+            spec,
+            json,
+            max_states,
+        } => verify_file(&circuit, &spec, json, max_states),
+        Command::Cost { circuit, json } => cost(&circuit, json),
+        Command::Methods => {
+            for (_, name, about) in Method::ALL {
+                println!("{name:<14} {about}");
+            }
+            Ok(code::DONE)
+        }
+    }
+}
+
+fn read_text(path: &Path) -> Result<String, Failure> {
+    std::fs::read_to_string(path)
+        .map_err(|e| Failure::bad(format!("{}: cannot read: {e}", path.display())))
+}
+
+fn load_spec(path: &Path) -> Result<Spec, Failure> {
+    let text = read_text(path)?;
+    Ok(parse_spec(&path.display().to_string(), &text)?)
+}
+
+fn load_circuit(path: &Path) -> Result<Circuit, Failure> {
+    let text = read_text(path)?;
+    Ok(read_qasm(&path.display().to_string(), &text)?)
+}
+
+/// A progress bar on standard error for runs of many states, only on a terminal.
+fn progress_bar(json: bool) -> impl Fn(u64, u64) + Sync {
+    let show = !json && std::io::stderr().is_terminal();
+    let bar: std::sync::OnceLock<ProgressBar> = std::sync::OnceLock::new();
+    let start = Instant::now();
+    move |done: u64, total: u64| {
+        if !show || total < 1 << 24 {
+            return;
+        }
+        let b = bar.get_or_init(|| {
+            let b = ProgressBar::new(total);
+            if let Ok(style) =
+                ProgressStyle::with_template("verifying {bar:40} {percent}% of {len} basis states, {eta} left")
+            {
+                b.set_style(style);
+            }
+            b
+        });
+        b.set_position(done.max(b.position()));
+        if done >= total {
+            b.finish_and_clear();
+        }
+        let _ = start;
+    }
+}
+
+/// Writes `contents` to a temporary file beside `path`, then renames it into place.
+fn write_atomic(path: &Path, contents: &str, protect: &[&Path]) -> Result<(), Failure> {
+    for p in protect {
+        if let (Ok(a), Ok(b)) = (path.canonicalize(), p.canonicalize()) {
+            if a == b {
+                return Err(Failure::bad(format!(
+                    "{}: refusing to overwrite an input file",
+                    path.display()
+                )));
+            }
+        }
+    }
+    let name = path
+        .file_name()
+        .ok_or_else(|| Failure::bad(format!("{}: not a file name", path.display())))?;
+    let tmp = path.with_file_name(format!(
+        ".{}.tmp-{}",
+        name.to_string_lossy(),
+        std::process::id()
+    ));
+    let result = std::fs::File::create(&tmp)
+        .and_then(|mut f| {
+            f.write_all(contents.as_bytes())?;
+            f.sync_all()
+        })
+        .and_then(|_| std::fs::rename(&tmp, path));
+    result.map_err(|e| {
+        let _ = std::fs::remove_file(&tmp);
+        Failure::bad(format!("{}: cannot write: {e}", path.display()))
+    })
+}
+
+fn verdict_failure(e: oraculum::BuildError) -> Failure {
+    Failure {
+        code: if e.is_limit() { code::LIMIT } else { code::BAD_INPUT },
+        message: e.to_string(),
+    }
+}
+
+fn synth(
+    spec_path: &Path,
+    output: Option<&Path>,
+    method: &str,
+    json: bool,
+    no_verify: bool,
+    format: Format,
+    limits: &LimitArgs,
+) -> Result<i32, Failure> {
+    let method = Method::from_name(method).ok_or_else(|| {
+        let names: Vec<&str> = Method::ALL.iter().map(|(_, n, _)| *n).collect();
+        Failure::bad(format!(
+            "unknown method '{method}'; the methods are {}",
+            names.join(", ")
+        ))
+    })?;
+    let spec = load_spec(spec_path)?;
+    let opts = BuildOptions {
+        method,
+        limits: SynthLimits {
+            max_table_inputs: limits.max_inputs,
+            max_gates: limits.max_gates,
+        },
+        verify: (!no_verify).then_some(VerifyOptions {
+            max_states: limits.max_states,
+        }),
+    };
+    let bar = progress_bar(json);
+    let out = build_with_progress(&spec, &opts, &bar).map_err(verdict_failure)?;
+    if let oraculum::Verification::Ran(Verdict::Refuted { counterexample }) = &out.verification {
+        if json {
+            println!("{}", serde_json::to_string_pretty(&out.report()).unwrap_or_default());
+        }
+        return Err(Failure {
+            code: code::REFUTED,
+            message: format!(
+                "the synthesized circuit failed verification; nothing was written\n{counterexample}"
+            ),
+        });
+    }
+    let text = match format {
+        Format::Qasm => out
+            .qasm()
+            .map_err(|e| Failure::bad(format!("cannot write OpenQASM 2: {e}")))?,
+        Format::Text => listing(&out.lowered),
+    };
+    if let Some(path) = output {
+        write_atomic(path, &text, &[spec_path])?;
+    }
+    let label = out.name.clone().unwrap_or_else(|| spec_path.display().to_string());
+    if json {
+        let mut v = serde_json::to_value(out.report()).unwrap_or_default();
+        if let Some(obj) = v.as_object_mut() {
+            match output {
+                Some(p) => obj.insert("output".into(), json!(p.display().to_string())),
+                None => obj.insert("circuit".into(), json!(text)),
+            };
+        }
+        println!("{}", serde_json::to_string_pretty(&v).unwrap_or_default());
+        return Ok(code::DONE);
+    }
+    let verdict = match &out.verification {
+        oraculum::Verification::Ran(Verdict::Proven { states }) => {
+            format!("verified on all {states} basis states")
+        }
+        _ => "NOT verified (--no-verify)".to_string(),
+    };
+    let summary = format!(
+        "{label}: method {}, {verdict}\n{}\n",
+        out.method, out.cost
+    );
+    match output {
+        Some(p) => {
+            print!("{summary}");
+            println!("wrote {}", p.display());
+        }
+        None => {
+            print!("{text}");
+            eprint!("{summary}");
+        }
+    }
+    Ok(code::DONE)
+}
+
+fn verify_file(circuit: &Path, spec: &Path, json: bool, max_states: u64) -> Result<i32, Failure> {
+    let c = load_circuit(circuit)?;
+    let s = load_spec(spec)?;
+    let bar = progress_bar(json);
+    let t = Instant::now();
+    let verdict = verify_with_progress(&c, &s, &VerifyOptions { max_states }, &bar).map_err(|e| {
+        Failure {
+            code: match e {
+                VerifyError::TooLarge { .. } => code::LIMIT,
+                _ => code::BAD_INPUT,
+            },
+            message: format!("{}: {e}", circuit.display()),
+        }
+    })?;
+    let seconds = t.elapsed().as_secs_f64();
+    let refuted = matches!(verdict, Verdict::Refuted { .. });
+    if json {
+        let mut v = serde_json::to_value(&verdict).unwrap_or_default();
+        if let Some(obj) = v.as_object_mut() {
+            obj.insert("circuit".into(), json!(circuit.display().to_string()));
+            obj.insert("spec".into(), json!(spec.display().to_string()));
+            obj.insert("seconds".into(), json!(seconds));
+        }
+        println!("{}", serde_json::to_string_pretty(&v).unwrap_or_default());
+    } else {
+        match &verdict {
+            Verdict::Proven { states } => println!(
+                "{}: verified against {} on all {states} basis states",
+                circuit.display(),
+                spec.display()
+            ),
+            Verdict::Refuted { counterexample } => println!(
+                "{}: refuted against {}\n{counterexample}",
+                circuit.display(),
+                spec.display()
+            ),
+        }
+    }
+    Ok(if refuted { code::REFUTED } else { code::DONE })
+}
+
+fn cost(circuit: &Path, json: bool) -> Result<i32, Failure> {
+    let c = load_circuit(circuit)?;
+    if c.max_controls() > 2 {
+        return Err(Failure::bad("the circuit has gates with more than two controls"));
+    }
+    let cost = Cost::measure(&c, &c);
+    if json {
+        println!("{}", serde_json::to_string_pretty(&cost).unwrap_or_default());
+    } else {
+        println!("{}\n{cost}", circuit.display());
+    }
+    Ok(code::DONE)
+}

@@ -1,0 +1,7 @@
+//! Writers and readers: OpenQASM 2 (both ways) and a plain text listing.
+
+mod qasm2;
+mod text;
+
+pub use qasm2::{read_qasm, write_qasm, QasmHeader, WriteError};
+pub use text::listing;

@@ -1,0 +1,338 @@
+//! OpenQASM 2 (Cross, Bishop, Smolin, Gambetta 2017): write lowered circuits, read `x`/`cx`/`ccx` files.
+
+use crate::circuit::{Circuit, Control, Cost, Gate, Line, LineInfo, Role};
+use crate::spec::{LocatedError, Source};
+use std::fmt::Write as _;
+
+/// What goes into the header comments.
+#[derive(Clone, Debug, Default)]
+pub struct QasmHeader {
+    /// The spec's name.
+    pub name: Option<String>,
+    /// The synthesis method.
+    pub method: Option<String>,
+    /// The cost report.
+    pub cost: Option<Cost>,
+}
+
+/// A circuit that OpenQASM 2 with `qelib1.inc` cannot express as is.
+#[derive(Debug, Clone, PartialEq, Eq, thiserror::Error)]
+pub enum WriteError {
+    /// More than two controls or a negative control: lower first.
+    #[error("gate {0} has more than two controls or a negative control; lower the circuit first")]
+    NotLowered(usize),
+    /// A register name that OpenQASM 2 does not allow.
+    #[error("register name '{0}' is not an OpenQASM 2 identifier")]
+    BadRegister(String),
+}
+
+fn role_word(r: Role) -> &'static str {
+    match r {
+        Role::Input => "input",
+        Role::Output => "output",
+        Role::Data => "data",
+        Role::Ancilla => "ancilla, starts and ends at 0",
+    }
+}
+
+/// Writes a lowered circuit as OpenQASM 2 with `x`, `cx` and `ccx` only.
+pub fn write_qasm(c: &Circuit, header: &QasmHeader) -> Result<String, WriteError> {
+    let mut s = String::new();
+    s.push_str("OPENQASM 2.0;\ninclude \"qelib1.inc\";\n");
+    let _ = writeln!(s, "// written by oraculum {}", env!("CARGO_PKG_VERSION"));
+    if let Some(n) = &header.name {
+        let _ = writeln!(s, "// spec: {}", n.replace('\n', " "));
+    }
+    if let Some(m) = &header.method {
+        let _ = writeln!(s, "// method: {m}");
+    }
+    if let Some(cost) = &header.cost {
+        let _ = writeln!(
+            s,
+            "// cost: qubits {}, toffoli {}, cnot {}, not {}, depth {}, toffoli depth {}, t-count {}",
+            cost.qubits, cost.toffoli, cost.cnot, cost.not, cost.depth, cost.toffoli_depth, cost.t_count
+        );
+    }
+    s.push_str("// lines:\n");
+    for l in c.lines() {
+        let label = if l.label.is_empty() || l.role == Role::Ancilla {
+            String::new()
+        } else {
+            format!(" = {}", l.label.replace('\n', " "))
+        };
+        let _ = writeln!(s, "//   {}[{}]{label} ({})", l.register, l.index, role_word(l.role));
+    }
+    for (name, size) in c.registers() {
+        let mut chars = name.chars();
+        let ok = matches!(chars.next(), Some(ch) if ch.is_ascii_lowercase())
+            && chars.all(|ch| ch.is_ascii_alphanumeric() || ch == '_');
+        if !ok {
+            return Err(WriteError::BadRegister(name));
+        }
+        let _ = writeln!(s, "qreg {name}[{size}];");
+    }
+    let q = |l: Line| {
+        let info = &c.lines()[l.index()];
+        format!("{}[{}]", info.register, info.index)
+    };
+    for (k, g) in c.gates().iter().enumerate() {
+        if g.controls().iter().any(|c| !c.positive) {
+            return Err(WriteError::NotLowered(k));
+        }
+        let ctl: Vec<String> = g.controls().iter().map(|c| q(c.line)).collect();
+        let t = q(g.target());
+        let _ = match ctl.len() {
+            0 => writeln!(s, "x {t};"),
+            1 => writeln!(s, "cx {},{t};", ctl[0]),
+            2 => writeln!(s, "ccx {},{},{t};", ctl[0], ctl[1]),
+            _ => return Err(WriteError::NotLowered(k)),
+        };
+    }
+    Ok(s)
+}
+
+/// Blanks out `//` comments, keeping every byte offset.
+fn strip_comments(text: &str) -> String {
+    let mut out = String::with_capacity(text.len());
+    let mut in_comment = false;
+    let mut prev_slash = false;
+    for ch in text.chars() {
+        if in_comment {
+            if ch == '\n' {
+                in_comment = false;
+                out.push('\n');
+            } else {
+                out.extend(std::iter::repeat_n(' ', ch.len_utf8()));
+            }
+            continue;
+        }
+        if ch == '/' && prev_slash {
+            out.pop();
+            out.push_str("  ");
+            in_comment = true;
+            prev_slash = false;
+            continue;
+        }
+        prev_slash = ch == '/';
+        out.push(ch);
+    }
+    out
+}
+
+struct Reg {
+    name: String,
+    first: u32,
+    size: u32,
+}
+
+/// Reads an OpenQASM 2 file of `x`, `cx`, `CX` and `ccx` gates into a circuit.
+///
+/// `qreg`s become registers (a register named `anc` holds ancillae); `creg`,
+/// `measure` and `barrier` are read and ignored; a register operand without an
+/// index applies the gate across the register, as OpenQASM 2 defines. Any other
+/// statement is refused with its line and column.
+pub fn read_qasm(path: &str, text: &str) -> Result<Circuit, LocatedError> {
+    let src = Source { path, text };
+    let clean = strip_comments(text);
+    let mut regs: Vec<Reg> = Vec::new();
+    let mut lines: Vec<LineInfo> = Vec::new();
+    let mut gates: Vec<Gate> = Vec::new();
+    let mut seen_version = false;
+    let mut start = 0usize;
+    while start < clean.len() {
+        let end = match clean[start..].find(';') {
+            Some(k) => start + k,
+            None => {
+                let rest = clean[start..].trim_start();
+                if rest.is_empty() {
+                    break;
+                }
+                let at = clean.len() - rest.len();
+                return Err(src.error(at, "this statement has no closing ';'"));
+            }
+        };
+        let stmt_raw = &clean[start..end];
+        let lead = stmt_raw.len() - stmt_raw.trim_start().len();
+        let at = start + lead;
+        let stmt = stmt_raw.trim();
+        start = end + 1;
+        if stmt.is_empty() {
+            continue;
+        }
+        let word_len = stmt
+            .find(|c: char| !(c.is_ascii_alphanumeric() || c == '_'))
+            .unwrap_or(stmt.len());
+        let word = &stmt[..word_len];
+        let rest = &stmt[word_len..];
+        let rest_at = at + word_len;
+        if !seen_version {
+            if word == "OPENQASM" && rest.trim() == "2.0" {
+                seen_version = true;
+                continue;
+            }
+            return Err(src.error(at, "an OpenQASM 2 file starts with 'OPENQASM 2.0;'"));
+        }
+        match word {
+            "include" => {
+                if rest.trim() != "\"qelib1.inc\"" {
+                    return Err(src.error(rest_at, "only \"qelib1.inc\" can be included"));
+                }
+            }
+            "qreg" | "creg" => {
+                let (name, size) = parse_decl(&src, rest, rest_at)?;
+                if word == "creg" {
+                    continue;
+                }
+                if regs.iter().any(|r| r.name == name) {
+                    return Err(src.error(rest_at, format!("register '{name}' is declared twice")));
+                }
+                let first = lines.len() as u32;
+                for i in 0..size {
+                    lines.push(LineInfo {
+                        register: name.clone(),
+                        index: i,
+                        role: if name == "anc" { Role::Ancilla } else { Role::Data },
+                        label: format!("{name}[{i}]"),
+                    });
+                }
+                regs.push(Reg { name, first, size });
+                if lines.len() > 1 << 20 {
+                    return Err(src.error(at, "more than 2^20 qubits declared"));
+                }
+            }
+            "barrier" | "measure" => {}
+            "x" | "cx" | "CX" | "ccx" => {
+                let arity = match word {
+                    "x" => 1,
+                    "ccx" => 3,
+                    _ => 2,
+                };
+                let ops = parse_operands(&src, &regs, rest, rest_at)?;
+                if ops.len() != arity {
+                    return Err(src.error(
+                        rest_at,
+                        format!("'{word}' takes {arity} operand(s), found {}", ops.len()),
+                    ));
+                }
+                // A whole-register operand repeats the gate across the register.
+                let sizes: Vec<u32> = ops.iter().filter_map(|o| o.1).collect();
+                let reps = sizes.first().copied().unwrap_or(1);
+                if sizes.iter().any(|&s| s != reps) {
+                    return Err(src.error(rest_at, "whole-register operands differ in size"));
+                }
+                for r in 0..reps {
+                    let q: Vec<u32> = ops
+                        .iter()
+                        .map(|(first, size)| if size.is_some() { first + r } else { *first })
+                        .collect();
+                    let t = *q.last().expect("arity at least 1");
+                    let controls = q[..q.len() - 1].iter().map(|&c| Control::pos(c)).collect();
+                    let g = Gate::new(controls, Line(t)).ok_or_else(|| {
+                        src.error(rest_at, format!("'{word}' uses the same qubit twice"))
+                    })?;
+                    gates.push(g);
+                }
+            }
+            "" => {
+                return Err(src.error(at, format!("unexpected '{}'", stmt.chars().next().unwrap_or(' '))));
+            }
+            other => {
+                return Err(src
+                    .error(at, format!("'{other}' is not read by oraculum"))
+                    .with_hint("oraculum reads qreg, creg, x, cx, CX, ccx, barrier and measure"));
+            }
+        }
+    }
+    if !seen_version {
+        return Err(src.error(0, "an OpenQASM 2 file starts with 'OPENQASM 2.0;'"));
+    }
+    Ok(Circuit::from_parts(lines, gates).expect("operands were resolved against declared registers"))
+}
+
+fn parse_index(src: &Source, text: &str, at: usize) -> Result<(String, Option<u32>), LocatedError> {
+    let t = text.trim();
+    let lead = at + (text.len() - text.trim_start().len());
+    let (name, index) = match t.find('[') {
+        Some(k) => {
+            let close = t.rfind(']').filter(|&c| c == t.len() - 1).ok_or_else(|| {
+                src.error(lead + k, "expected ']' at the end of the operand")
+            })?;
+            let idx: u32 = t[k + 1..close].trim().parse().map_err(|_| {
+                src.error(lead + k + 1, "an index is a whole number")
+            })?;
+            (t[..k].trim(), Some(idx))
+        }
+        None => (t, None),
+    };
+    let mut chars = name.chars();
+    let ok = matches!(chars.next(), Some(c) if c.is_ascii_alphabetic())
+        && chars.all(|c| c.is_ascii_alphanumeric() || c == '_');
+    if !ok {
+        return Err(src.error(lead, format!("'{name}' is not a register name")));
+    }
+    Ok((name.to_string(), index))
+}
+
+fn parse_decl(src: &Source, text: &str, at: usize) -> Result<(String, u32), LocatedError> {
+    let (name, size) = parse_index(src, text, at)?;
+    match size {
+        Some(s) if s > 0 => Ok((name, s)),
+        _ => Err(src.error(at, "a register is declared as name[size] with size at least 1")),
+    }
+}
+
+/// Operands as (first line, Some(size) for a whole register).
+fn parse_operands(
+    src: &Source,
+    regs: &[Reg],
+    text: &str,
+    at: usize,
+) -> Result<Vec<(u32, Option<u32>)>, LocatedError> {
+    let mut out = Vec::new();
+    let mut offset = 0;
+    for part in text.split(',') {
+        let part_at = at + offset;
+        offset += part.len() + 1;
+        let (name, index) = parse_index(src, part, part_at)?;
+        let lead = part_at + (part.len() - part.trim_start().len());
+        let reg = regs
+            .iter()
+            .find(|r| r.name == name)
+            .ok_or_else(|| src.error(lead, format!("register '{name}' is not declared")))?;
+        match index {
+            Some(i) if i >= reg.size => {
+                return Err(src.error(
+                    lead,
+                    format!("{name}[{i}] is past the end of '{name}', which has {} qubits", reg.size),
+                ))
+            }
+            Some(i) => out.push((reg.first + i, None)),
+            None => out.push((reg.first, Some(reg.size))),
+        }
+    }
+    Ok(out)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn reads_what_it_writes_and_refuses_the_rest() {
+        let text = "OPENQASM 2.0;\ninclude \"qelib1.inc\"; // the standard library\nqreg x[2];\nqreg y[1];\ncreg c[1];\nccx x[0],x[1],y[0];\nCX x[0], y[0];\nx y;\nbarrier x;\nmeasure y[0] -> c[0];\n";
+        let c = read_qasm("t.qasm", text).unwrap();
+        assert_eq!(c.width(), 3);
+        assert_eq!(c.gates(), &[Gate::toffoli(0, 1, 2), Gate::cnot(0, 2), Gate::not(2)]);
+        let again = write_qasm(&c, &QasmHeader::default()).unwrap();
+        assert_eq!(read_qasm("again", &again).unwrap().gates(), c.gates());
+
+        let e = read_qasm("t.qasm", "OPENQASM 2.0;\nqreg q[2];\nh q[0];\n").unwrap_err();
+        assert_eq!((e.location.line, e.location.column), (3, 1));
+        let e = read_qasm("t.qasm", "OPENQASM 2.0;\nqreg q[2];\ncx q[0], q[5];\n").unwrap_err();
+        assert_eq!((e.location.line, e.location.column), (3, 10));
+        let e = read_qasm("t.qasm", "OPENQASM 2.0;\nqreg q[2];\ncx q[1],q[1];\n").unwrap_err();
+        assert!(e.message.contains("same qubit"), "{e}");
+        assert!(read_qasm("t.qasm", "qreg q[2];").is_err());
+        assert!(read_qasm("t.qasm", "OPENQASM 2.0;\nqreg q[2]").is_err());
+    }
+}

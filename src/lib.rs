@@ -1,0 +1,57 @@
+//! oraculum turns classical functions into verified reversible oracles.
+//!
+//! A spec (truth table, expression, permutation or arithmetic op) is
+//! synthesized into multi-controlled Toffoli gates, optimized, lowered to NOT,
+//! CNOT and Toffoli gates on clean ancillae, verified by an independent
+//! exhaustive checker, and written as OpenQASM 2.
+//!
+//! ```
+//! use oraculum::{build, parse_spec, BuildOptions};
+//! let spec = parse_spec("vote.toml", r#"
+//!     kind = "function"
+//!     inputs = ["a", "b", "c"]
+//!     outputs = ["most"]
+//!     [table]
+//!     most = "0xe8"
+//! "#).unwrap();
+//! let out = build(&spec, &BuildOptions { verify: Some(Default::default()), ..Default::default() }).unwrap();
+//! assert!(out.verification.is_proven());
+//! assert_eq!(out.cost.toffoli, 3); // ab ^ ac ^ bc
+//! let qasm = out.qasm().unwrap();
+//! assert!(qasm.starts_with("OPENQASM 2.0;"));
+//! ```
+#![deny(missing_docs)]
+
+mod circuit;
+mod export;
+mod logic;
+mod lower;
+mod opt;
+mod pipeline;
+mod spec;
+mod synth;
+mod verify;
+
+pub use circuit::{Circuit, Control, Cost, Gate, Line, LineInfo, LineOutOfRange, Role};
+pub use export::{listing, read_qasm, write_qasm, QasmHeader, WriteError};
+pub use logic::{
+    parse_expr, Expr, ExprError, Permutation, PermutationError, TableError, TruthTable,
+    MAX_PERMUTATION_WIDTH, MAX_TABLE_VARS,
+};
+pub use lower::{lower, ANCILLA_REGISTER};
+pub use opt::{cancel_pairs, CANCEL_WINDOW};
+pub use pipeline::{
+    build, build_with_progress, BuildError, BuildOptions, Outcome, Report, Timings, Verification,
+};
+pub use spec::{
+    parse_spec, ArithOp, ArithSpec, FunctionSpec, LocatedError, Location, Output, OutputDef,
+    Source, Spec, SpecBody, MAX_ARITH_WIDTH,
+};
+pub use synth::{
+    function_lines, permutation_lines, reed_muller, reed_muller_coefficients, resolve,
+    synthesize, transform, Method, SynthError, SynthLimits,
+};
+pub use verify::{
+    verify, verify_with_progress, Counterexample, RegisterValue, Verdict, VerifyError,
+    VerifyOptions, BLOCK_WORDS, DEFAULT_MAX_STATES,
+};

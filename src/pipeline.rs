@@ -1,0 +1,177 @@
+//! The whole job in one call: synthesize, lower, measure, verify.
+
+use crate::circuit::{Circuit, Cost};
+use crate::export::{write_qasm, QasmHeader, WriteError};
+use crate::lower::lower;
+use crate::synth::{resolve, synthesize, Method, SynthError, SynthLimits};
+use crate::verify::{verify_with_progress, Verdict, VerifyError, VerifyOptions};
+use crate::Spec;
+use serde::Serialize;
+use std::time::Instant;
+
+/// Everything a build run needs besides the spec.
+#[derive(Clone, Copy, Debug, Default)]
+pub struct BuildOptions {
+    /// The synthesis method.
+    pub method: Method,
+    /// Synthesis budgets.
+    pub limits: SynthLimits,
+    /// `None` skips verification (the report says so).
+    pub verify: Option<VerifyOptions>,
+}
+
+impl Default for Method {
+    fn default() -> Self {
+        Method::Auto
+    }
+}
+
+/// Whether and how the circuit was checked.
+#[derive(Clone, Debug, PartialEq, Eq, Serialize)]
+#[serde(untagged)]
+pub enum Verification {
+    /// The verifier ran.
+    Ran(Verdict),
+    /// `--no-verify`: nothing was checked.
+    Skipped {
+        /// Always "skipped".
+        verdict: &'static str,
+    },
+}
+
+impl Verification {
+    /// True when every basis state was checked and correct.
+    pub fn is_proven(&self) -> bool {
+        matches!(self, Verification::Ran(Verdict::Proven { .. }))
+    }
+}
+
+/// Seconds spent in each stage.
+#[derive(Clone, Copy, Debug, Default, PartialEq, Serialize)]
+pub struct Timings {
+    /// Synthesis and optimization.
+    pub synth: f64,
+    /// Lowering to Toffoli gates.
+    pub lower: f64,
+    /// Verification.
+    pub verify: f64,
+}
+
+/// A built oracle.
+#[derive(Clone, Debug)]
+pub struct Outcome {
+    /// The spec's name, if it has one.
+    pub name: Option<String>,
+    /// The method that ran (never `auto`).
+    pub method: Method,
+    /// The circuit before lowering.
+    pub mct: Circuit,
+    /// The circuit of NOT, CNOT and Toffoli gates.
+    pub lowered: Circuit,
+    /// Its cost.
+    pub cost: Cost,
+    /// The verdict.
+    pub verification: Verification,
+    /// Time per stage.
+    pub timings: Timings,
+}
+
+/// Why a build stopped before a verdict.
+#[derive(Debug, Clone, PartialEq, Eq, thiserror::Error)]
+pub enum BuildError {
+    /// Synthesis refused.
+    #[error(transparent)]
+    Synth(#[from] SynthError),
+    /// Verification could not run.
+    #[error(transparent)]
+    Verify(#[from] VerifyError),
+}
+
+impl BuildError {
+    /// True when a resource limit, not the input, stopped the job.
+    pub fn is_limit(&self) -> bool {
+        matches!(
+            self,
+            BuildError::Synth(SynthError::Limit { .. }) | BuildError::Verify(VerifyError::TooLarge { .. })
+        )
+    }
+}
+
+/// Synthesizes, lowers, measures and (unless told not to) verifies `spec`.
+pub fn build(spec: &Spec, opts: &BuildOptions) -> Result<Outcome, BuildError> {
+    build_with_progress(spec, opts, &|_, _| {})
+}
+
+/// [`build`] with a progress callback for verification (see
+/// [`crate::verify::verify_with_progress`]).
+pub fn build_with_progress(
+    spec: &Spec,
+    opts: &BuildOptions,
+    progress: &(dyn Fn(u64, u64) + Sync),
+) -> Result<Outcome, BuildError> {
+    let method = resolve(spec, opts.method);
+    let t0 = Instant::now();
+    let mct = synthesize(spec, method, &opts.limits)?;
+    let t1 = Instant::now();
+    let lowered = lower(&mct);
+    let t2 = Instant::now();
+    let cost = Cost::measure(&mct, &lowered);
+    let verification = match &opts.verify {
+        Some(v) => Verification::Ran(verify_with_progress(&lowered, spec, v, progress)?),
+        None => Verification::Skipped { verdict: "skipped" },
+    };
+    let t3 = Instant::now();
+    Ok(Outcome {
+        name: spec.name.clone(),
+        method,
+        mct,
+        lowered,
+        cost,
+        verification,
+        timings: Timings {
+            synth: (t1 - t0).as_secs_f64(),
+            lower: (t2 - t1).as_secs_f64(),
+            verify: (t3 - t2).as_secs_f64(),
+        },
+    })
+}
+
+/// The report of a build, as printed with `--json`.
+#[derive(Clone, Debug, Serialize)]
+pub struct Report<'a> {
+    /// The spec's name.
+    pub name: Option<&'a str>,
+    /// The method that ran.
+    pub method: &'static str,
+    /// The cost report.
+    pub cost: &'a Cost,
+    /// The verdict.
+    pub verification: &'a Verification,
+    /// Seconds per stage.
+    pub seconds: Timings,
+}
+
+impl Outcome {
+    /// The JSON-ready report.
+    pub fn report(&self) -> Report<'_> {
+        Report {
+            name: self.name.as_deref(),
+            method: self.method.name(),
+            cost: &self.cost,
+            verification: &self.verification,
+            seconds: self.timings,
+        }
+    }
+
+    /// The lowered circuit as OpenQASM 2, with the header of design.md.
+    pub fn qasm(&self) -> Result<String, WriteError> {
+        write_qasm(
+            &self.lowered,
+            &QasmHeader {
+                name: self.name.clone(),
+                method: Some(self.method.name().to_string()),
+                cost: Some(self.cost.clone()),
+            },
+        )
+    }
+}

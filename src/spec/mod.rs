@@ -1,0 +1,602 @@
+//! The TOML spec file, version 1: schema, parsing and validation with precise locations.
+
+mod error;
+
+pub use error::{LocatedError, Location, Source};
+
+use crate::logic::{parse_expr, Expr, Permutation, PermutationError, TruthTable, MAX_TABLE_VARS};
+use serde::Deserialize;
+use std::collections::BTreeMap;
+use std::ops::Range;
+use toml::Spanned;
+
+/// A parsed and validated spec.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Spec {
+    /// The optional `name`, copied into outputs.
+    pub name: Option<String>,
+    /// What to build.
+    pub body: SpecBody,
+}
+
+/// The three kinds of spec.
+#[derive(Clone, Debug, PartialEq)]
+pub enum SpecBody {
+    /// `kind = "function"`: an oracle `|x>|y> -> |x>|y XOR f(x)>`.
+    Function(FunctionSpec),
+    /// `kind = "permutation"`: a reversible function in place.
+    Permutation(Permutation),
+    /// `kind = "arithmetic"`: a structural generator.
+    Arithmetic(ArithSpec),
+}
+
+/// A multi-output Boolean function.
+#[derive(Clone, Debug, PartialEq)]
+pub struct FunctionSpec {
+    /// Input names; input `j` is bit `j` of the input index.
+    pub inputs: Vec<String>,
+    /// Outputs in `outputs` order.
+    pub outputs: Vec<Output>,
+}
+
+/// One output and how it is given.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Output {
+    /// The output's name.
+    pub name: String,
+    /// Its definition.
+    pub def: OutputDef,
+}
+
+/// An output given by `[table]` or by `[expr]`.
+#[derive(Clone, Debug, PartialEq)]
+pub enum OutputDef {
+    /// A truth table over all inputs.
+    Table(TruthTable),
+    /// An expression over the inputs.
+    Expr(Expr),
+}
+
+impl FunctionSpec {
+    /// The truth table of output `j` (expressions are evaluated); `None` past
+    /// [`MAX_TABLE_VARS`] inputs.
+    pub fn table(&self, j: usize) -> Option<TruthTable> {
+        let n = self.inputs.len();
+        match &self.outputs[j].def {
+            OutputDef::Table(t) => Some(t.clone()),
+            OutputDef::Expr(e) if n <= MAX_TABLE_VARS => Some(TruthTable::from_expr(n, e)),
+            OutputDef::Expr(_) => None,
+        }
+    }
+}
+
+/// Arithmetic operations of the spec schema.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Hash)]
+pub enum ArithOp {
+    /// `a, b -> a, (a + b) mod 2^w`.
+    Add,
+    /// `a, b -> a, (b - a) mod 2^w`.
+    Sub,
+    /// `a -> (a + constant) mod 2^w`.
+    AddConst,
+    /// `a, b, y -> a, b, y XOR (a < b)`.
+    LessThan,
+    /// `a, y -> a, y XOR (a < constant)`.
+    LessThanConst,
+    /// `a, y -> a, y XOR (a == constant)`.
+    EqualConst,
+    /// `a -> (a + 1) mod modulus` below the modulus.
+    IncrementMod,
+    /// `a, b -> a, (a + b) mod modulus` for `a, b < modulus`.
+    AddMod,
+    /// `address, data -> address, data XOR table[address]`.
+    Lookup,
+}
+
+impl ArithOp {
+    /// Every op with its spec name.
+    pub const ALL: [(ArithOp, &'static str); 9] = [
+        (ArithOp::Add, "add"),
+        (ArithOp::Sub, "sub"),
+        (ArithOp::AddConst, "add_const"),
+        (ArithOp::LessThan, "less_than"),
+        (ArithOp::LessThanConst, "less_than_const"),
+        (ArithOp::EqualConst, "equal_const"),
+        (ArithOp::IncrementMod, "increment_mod"),
+        (ArithOp::AddMod, "add_mod"),
+        (ArithOp::Lookup, "lookup"),
+    ];
+
+    /// The spec name.
+    pub fn name(self) -> &'static str {
+        ArithOp::ALL
+            .iter()
+            .find(|(op, _)| *op == self)
+            .map(|(_, n)| *n)
+            .unwrap_or("?")
+    }
+}
+
+/// An arithmetic spec.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct ArithSpec {
+    /// The operation.
+    pub op: ArithOp,
+    /// Register width in bits (the address width for `lookup`).
+    pub width: usize,
+    /// `constant` for the `_const` ops.
+    pub constant: Option<u64>,
+    /// `modulus` for the `_mod` ops.
+    pub modulus: Option<u64>,
+    /// `carry_out` for `add`.
+    pub carry_out: bool,
+    /// `controlled`: a `ctrl[1]` register gates the whole map.
+    pub controlled: bool,
+    /// `data` words for `lookup`, one per address.
+    pub data: Vec<u64>,
+    /// `data_width` for `lookup`.
+    pub data_width: usize,
+}
+
+/// Widest arithmetic register accepted.
+pub const MAX_ARITH_WIDTH: usize = 1 << 16;
+
+#[derive(Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RawSpec {
+    kind: Spanned<String>,
+    name: Option<Spanned<String>>,
+    inputs: Option<Spanned<Vec<Spanned<String>>>>,
+    outputs: Option<Spanned<Vec<Spanned<String>>>>,
+    table: Option<Spanned<BTreeMap<Spanned<String>, Spanned<String>>>>,
+    expr: Option<Spanned<BTreeMap<Spanned<String>, Spanned<String>>>>,
+    width: Option<Spanned<i64>>,
+    images: Option<Spanned<Vec<Spanned<i64>>>>,
+    op: Option<Spanned<String>>,
+    constant: Option<Spanned<i64>>,
+    modulus: Option<Spanned<i64>>,
+    carry_out: Option<Spanned<bool>>,
+    controlled: Option<Spanned<bool>>,
+    data: Option<Spanned<Vec<Spanned<i64>>>>,
+    data_width: Option<Spanned<i64>>,
+    oracle: Option<Spanned<RawOracle>>,
+}
+
+#[derive(Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RawOracle {
+    form: Option<Spanned<String>>,
+}
+
+/// Parses and validates a spec. `path` is only used in messages.
+pub fn parse_spec(path: &str, text: &str) -> Result<Spec, LocatedError> {
+    let src = Source { path, text };
+    let raw: RawSpec = toml::from_str(text).map_err(|e| {
+        let at = e.span().map_or(0, |s| s.start);
+        src.error(at, e.message().trim_end().to_string())
+    })?;
+    Validator { src: &src }.spec(raw)
+}
+
+struct Validator<'a> {
+    src: &'a Source<'a>,
+}
+
+fn is_identifier(s: &str) -> bool {
+    let mut chars = s.chars();
+    matches!(chars.next(), Some(c) if c.is_ascii_alphabetic() || c == '_')
+        && chars.all(|c| c.is_ascii_alphanumeric() || c == '_')
+}
+
+impl Validator<'_> {
+    fn err(&self, span: &Range<usize>, message: impl Into<String>) -> LocatedError {
+        self.src.error(span.start, message)
+    }
+
+    fn spec(&self, raw: RawSpec) -> Result<Spec, LocatedError> {
+        let name = raw.name.as_ref().map(|n| n.get_ref().clone());
+        if let Some(o) = &raw.oracle {
+            if let Some(form) = &o.get_ref().form {
+                if form.get_ref() != "xor" {
+                    return Err(self
+                        .err(&form.span(), format!("unknown oracle form '{}'", form.get_ref()))
+                        .with_hint("this version builds form = \"xor\""));
+                }
+            }
+        }
+        let kind = raw.kind.get_ref().as_str();
+        let allowed: &[&str] = match kind {
+            "function" => &["inputs", "outputs", "table", "expr"],
+            "permutation" => &["width", "images"],
+            "arithmetic" => &[
+                "op",
+                "width",
+                "constant",
+                "modulus",
+                "carry_out",
+                "controlled",
+                "data",
+                "data_width",
+            ],
+            other => {
+                return Err(self
+                    .err(&raw.kind.span(), format!("unknown kind '{other}'"))
+                    .with_hint("kind is one of function, permutation, arithmetic"))
+            }
+        };
+        let present: [(&str, Option<Range<usize>>); 14] = [
+            ("inputs", raw.inputs.as_ref().map(|v| v.span())),
+            ("outputs", raw.outputs.as_ref().map(|v| v.span())),
+            ("table", raw.table.as_ref().map(|v| v.span())),
+            ("expr", raw.expr.as_ref().map(|v| v.span())),
+            ("width", raw.width.as_ref().map(|v| v.span())),
+            ("images", raw.images.as_ref().map(|v| v.span())),
+            ("op", raw.op.as_ref().map(|v| v.span())),
+            ("constant", raw.constant.as_ref().map(|v| v.span())),
+            ("modulus", raw.modulus.as_ref().map(|v| v.span())),
+            ("carry_out", raw.carry_out.as_ref().map(|v| v.span())),
+            ("controlled", raw.controlled.as_ref().map(|v| v.span())),
+            ("data", raw.data.as_ref().map(|v| v.span())),
+            ("data_width", raw.data_width.as_ref().map(|v| v.span())),
+            ("oracle", None),
+        ];
+        for (key, span) in present {
+            if let Some(span) = span {
+                if !allowed.contains(&key) {
+                    return Err(self.err(
+                        &span,
+                        format!("'{key}' does not belong in a spec of kind '{kind}'"),
+                    ));
+                }
+            }
+        }
+        let body = match kind {
+            "function" => SpecBody::Function(self.function(&raw)?),
+            "permutation" => SpecBody::Permutation(self.permutation(&raw)?),
+            _ => SpecBody::Arithmetic(self.arithmetic(&raw)?),
+        };
+        Ok(Spec { name, body })
+    }
+
+    fn names(
+        &self,
+        list: &Option<Spanned<Vec<Spanned<String>>>>,
+        key: &str,
+        kind_span: &Range<usize>,
+        taken: &mut Vec<String>,
+    ) -> Result<Vec<String>, LocatedError> {
+        let list = list.as_ref().ok_or_else(|| {
+            self.err(kind_span, format!("a function spec needs an '{key}' list"))
+        })?;
+        if list.get_ref().is_empty() {
+            return Err(self.err(&list.span(), format!("'{key}' is empty")));
+        }
+        let mut out = Vec::new();
+        for n in list.get_ref() {
+            let s = n.get_ref();
+            if !is_identifier(s) {
+                return Err(self
+                    .err(&n.span(), format!("'{s}' is not a usable name"))
+                    .with_hint("names start with a letter or '_' and hold letters, digits and '_'"));
+            }
+            if taken.contains(s) {
+                return Err(self.err(&n.span(), format!("the name '{s}' is used twice")));
+            }
+            taken.push(s.clone());
+            out.push(s.clone());
+        }
+        Ok(out)
+    }
+
+    fn function(&self, raw: &RawSpec) -> Result<FunctionSpec, LocatedError> {
+        let kind_span = raw.kind.span();
+        let mut taken = Vec::new();
+        let inputs = self.names(&raw.inputs, "inputs", &kind_span, &mut taken)?;
+        let output_names = self.names(&raw.outputs, "outputs", &kind_span, &mut taken)?;
+        let output_spans: Vec<Range<usize>> = raw
+            .outputs
+            .as_ref()
+            .map(|o| o.get_ref().iter().map(|n| n.span()).collect())
+            .unwrap_or_default();
+        let n = inputs.len();
+        let mut defs: Vec<Option<OutputDef>> = vec![None; output_names.len()];
+        let mut sources: Vec<Option<&str>> = vec![None; output_names.len()];
+        let sections = [("table", &raw.table), ("expr", &raw.expr)];
+        for (section, map) in sections {
+            let Some(map) = map else { continue };
+            for (key, value) in map.get_ref() {
+                let k = output_names
+                    .iter()
+                    .position(|o| o == key.get_ref())
+                    .ok_or_else(|| {
+                        self.err(
+                            &key.span(),
+                            format!(
+                                "'{}' in [{section}] is not an output; the outputs are {}",
+                                key.get_ref(),
+                                output_names.join(", ")
+                            ),
+                        )
+                    })?;
+                if let Some(first) = sources[k] {
+                    return Err(self.err(
+                        &key.span(),
+                        format!(
+                            "output '{}' is given twice: in [{first}] and in [{section}]",
+                            key.get_ref()
+                        ),
+                    ));
+                }
+                sources[k] = Some(section);
+                let text = value.get_ref();
+                let span = value.span();
+                let at = |inner: usize| self.src.offset_in_string(&span, text, inner);
+                defs[k] = Some(if section == "table" {
+                    if n > MAX_TABLE_VARS {
+                        return Err(self.src.error(
+                            at(0),
+                            format!("a truth table takes at most {MAX_TABLE_VARS} inputs; use [expr] for {n} inputs"),
+                        ));
+                    }
+                    OutputDef::Table(
+                        TruthTable::parse(text, n)
+                            .map_err(|e| self.src.error(at(e.offset), e.message))?,
+                    )
+                } else {
+                    OutputDef::Expr(
+                        parse_expr(text, &inputs)
+                            .map_err(|e| self.src.error(at(e.offset), e.message))?,
+                    )
+                });
+            }
+        }
+        let mut outputs = Vec::new();
+        for (k, (name, def)) in output_names.into_iter().zip(defs).enumerate() {
+            let def = def.ok_or_else(|| {
+                self.err(
+                    &output_spans[k],
+                    format!("output '{name}' is given neither in [table] nor in [expr]"),
+                )
+            })?;
+            outputs.push(Output { name, def });
+        }
+        Ok(FunctionSpec { inputs, outputs })
+    }
+
+    fn nonneg(&self, v: &Spanned<i64>, key: &str) -> Result<u64, LocatedError> {
+        u64::try_from(*v.get_ref())
+            .map_err(|_| self.err(&v.span(), format!("'{key}' must be 0 or more")))
+    }
+
+    fn permutation(&self, raw: &RawSpec) -> Result<Permutation, LocatedError> {
+        let kind_span = raw.kind.span();
+        let width = raw
+            .width
+            .as_ref()
+            .ok_or_else(|| self.err(&kind_span, "a permutation spec needs 'width'"))?;
+        let w = self.nonneg(width, "width")? as usize;
+        if w == 0 {
+            return Err(self.err(&width.span(), "'width' must be at least 1"));
+        }
+        let images = raw
+            .images
+            .as_ref()
+            .ok_or_else(|| self.err(&kind_span, "a permutation spec needs 'images'"))?;
+        let mut values = Vec::with_capacity(images.get_ref().len());
+        for v in images.get_ref() {
+            values.push(self.nonneg(v, "images")?);
+        }
+        Permutation::new(w, values).map_err(|e| {
+            let span = match &e {
+                PermutationError::TooWide(_) => width.span(),
+                PermutationError::WrongCount { .. } => images.span(),
+                PermutationError::OutOfRange { index, .. }
+                | PermutationError::Repeated { index, .. } => images.get_ref()[*index].span(),
+            };
+            self.err(&span, e.to_string())
+        })
+    }
+
+    fn arithmetic(&self, raw: &RawSpec) -> Result<ArithSpec, LocatedError> {
+        let kind_span = raw.kind.span();
+        let op_raw = raw
+            .op
+            .as_ref()
+            .ok_or_else(|| self.err(&kind_span, "an arithmetic spec needs 'op'"))?;
+        let op = ArithOp::ALL
+            .iter()
+            .find(|(_, n)| n == op_raw.get_ref())
+            .map(|(op, _)| *op)
+            .ok_or_else(|| {
+                let names: Vec<&str> = ArithOp::ALL.iter().map(|(_, n)| *n).collect();
+                self.err(&op_raw.span(), format!("unknown op '{}'", op_raw.get_ref()))
+                    .with_hint(format!("op is one of {}", names.join(", ")))
+            })?;
+        let uses = |key: &str| -> bool {
+            match key {
+                "constant" => matches!(
+                    op,
+                    ArithOp::AddConst | ArithOp::LessThanConst | ArithOp::EqualConst
+                ),
+                "modulus" => matches!(op, ArithOp::IncrementMod | ArithOp::AddMod),
+                "carry_out" => op == ArithOp::Add,
+                "data" | "data_width" => op == ArithOp::Lookup,
+                _ => true,
+            }
+        };
+        let optional: [(&str, Option<Range<usize>>); 5] = [
+            ("constant", raw.constant.as_ref().map(|v| v.span())),
+            ("modulus", raw.modulus.as_ref().map(|v| v.span())),
+            ("carry_out", raw.carry_out.as_ref().map(|v| v.span())),
+            ("data", raw.data.as_ref().map(|v| v.span())),
+            ("data_width", raw.data_width.as_ref().map(|v| v.span())),
+        ];
+        for (key, span) in optional {
+            if let Some(span) = span {
+                if !uses(key) {
+                    return Err(self.err(
+                        &span,
+                        format!("'{key}' does not apply to op '{}'", op.name()),
+                    ));
+                }
+            }
+        }
+        let modulus = match &raw.modulus {
+            Some(m) => {
+                let v = self.nonneg(m, "modulus")?;
+                if v < 2 {
+                    return Err(self.err(&m.span(), "'modulus' must be at least 2"));
+                }
+                Some(v)
+            }
+            None if uses("modulus") => {
+                return Err(self.err(&op_raw.span(), format!("op '{}' needs 'modulus'", op.name())))
+            }
+            None => None,
+        };
+        let width = match (&raw.width, modulus) {
+            (Some(w), _) => {
+                let v = self.nonneg(w, "width")? as usize;
+                if v == 0 || v > MAX_ARITH_WIDTH {
+                    return Err(self.err(
+                        &w.span(),
+                        format!("'width' must be between 1 and {MAX_ARITH_WIDTH}"),
+                    ));
+                }
+                if let Some(m) = modulus {
+                    if v < 64 && (m - 1) >> v != 0 {
+                        return Err(self.err(
+                            &w.span(),
+                            format!("width {v} cannot hold {} (modulus {m} minus 1)", m - 1),
+                        ));
+                    }
+                }
+                v
+            }
+            (None, Some(m)) => (64 - (m - 1).leading_zeros() as usize).max(1),
+            (None, None) => {
+                return Err(self.err(&kind_span, "an arithmetic spec needs 'width'"))
+            }
+        };
+        let constant = match &raw.constant {
+            Some(c) => {
+                let v = self.nonneg(c, "constant")?;
+                if width < 64 && v >> width != 0 {
+                    return Err(self.err(
+                        &c.span(),
+                        format!("constant {v} does not fit in {width} bits"),
+                    ));
+                }
+                Some(v)
+            }
+            None if uses("constant") => {
+                return Err(self.err(&op_raw.span(), format!("op '{}' needs 'constant'", op.name())))
+            }
+            None => None,
+        };
+        let (mut data, mut data_width) = (Vec::new(), 0);
+        if op == ArithOp::Lookup {
+            if width > 20 {
+                return Err(self.err(
+                    &raw.width.as_ref().map(|w| w.span()).unwrap_or(kind_span.clone()),
+                    "a lookup table takes at most 20 address bits",
+                ));
+            }
+            let dw = raw
+                .data_width
+                .as_ref()
+                .ok_or_else(|| self.err(&op_raw.span(), "op 'lookup' needs 'data_width'"))?;
+            data_width = self.nonneg(dw, "data_width")? as usize;
+            if data_width == 0 || data_width > 64 {
+                return Err(self.err(&dw.span(), "'data_width' must be between 1 and 64"));
+            }
+            let words = raw
+                .data
+                .as_ref()
+                .ok_or_else(|| self.err(&op_raw.span(), "op 'lookup' needs 'data'"))?;
+            if words.get_ref().len() != 1 << width {
+                return Err(self.err(
+                    &words.span(),
+                    format!(
+                        "{width} address bits need {} data words, found {}",
+                        1usize << width,
+                        words.get_ref().len()
+                    ),
+                ));
+            }
+            for w in words.get_ref() {
+                let v = self.nonneg(w, "data")?;
+                if data_width < 64 && v >> data_width != 0 {
+                    return Err(self.err(
+                        &w.span(),
+                        format!("data word {v} does not fit in {data_width} bits"),
+                    ));
+                }
+                data.push(v);
+            }
+        }
+        Ok(ArithSpec {
+            op,
+            width,
+            constant,
+            modulus,
+            carry_out: raw.carry_out.as_ref().is_some_and(|c| *c.get_ref()),
+            controlled: raw.controlled.as_ref().is_some_and(|c| *c.get_ref()),
+            data,
+            data_width,
+        })
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn err(text: &str) -> LocatedError {
+        parse_spec("t.toml", text).unwrap_err()
+    }
+
+    fn at(e: &LocatedError) -> (usize, usize) {
+        (e.location.line, e.location.column)
+    }
+
+    #[test]
+    fn design_example_parses() {
+        let s = parse_spec(
+            "t.toml",
+            r#"
+kind = "function"
+name = "greenhouse-vent"
+inputs = ["hot", "humid", "night"]
+outputs = ["vent", "fan"]
+
+[table]
+vent = "0x3e"
+
+[expr]
+fan = "hot & !night | humid ^ hot"
+"#,
+        )
+        .unwrap();
+        assert_eq!(s.name.as_deref(), Some("greenhouse-vent"));
+        let SpecBody::Function(f) = s.body else { panic!("function kind") };
+        assert_eq!(f.inputs, ["hot", "humid", "night"]);
+        assert_eq!(f.table(0).unwrap().to_hex(), "0x3e");
+        // hot & !night | (humid ^ hot), by precedence.
+        let fan = f.table(1).unwrap();
+        for i in 0..8 {
+            let (hot, humid, night) = (i & 1 == 1, i & 2 == 2, i & 4 == 4);
+            assert_eq!(fan.get(i), (hot && !night) || (humid ^ hot));
+        }
+    }
+
+    #[test]
+    fn locations_of_common_mistakes() {
+        let e = err("kind = \"function\"\ninputs = [\"a\"]\noutputs = [\"f\"]\n[expr]\nf = \"a & b\"\n");
+        assert_eq!(at(&e), (5, 10), "{e}");
+        let e = err("kind = \"permutation\"\nwidth = 2\nimages = [0, 1, 1, 3]\n");
+        assert_eq!(at(&e), (3, 17), "{e}");
+        let e = err("kind = \"permutation\"\nwidht = 2\n");
+        assert_eq!(at(&e).0, 2, "{e}");
+    }
+}

@@ -1,0 +1,486 @@
+//! The independent verifier: exhaustive bit-sliced simulation of every basis state.
+//!
+//! This module shares no code with synthesis, optimization or lowering. It reads
+//! only the circuit's gate list and register names and the spec's data (tables,
+//! expressions, images), keeps its own simulator and its own expression evaluator,
+//! and binds lines to spec variables by register name, exactly as it would for a
+//! circuit read from a file written by anyone.
+//!
+//! Basis states are numbered by the free lines (inputs and targets): for a
+//! function spec, state bit `j < n` is `x[j]` and bit `n + k` is `y[k]`; for a
+//! permutation, bit `j` is `x[j]`. Ancillae start at 0. Each machine word holds
+//! 64 states; a block of [`BLOCK_WORDS`] words runs through the whole gate list
+//! before the next block, and blocks run in parallel.
+
+use crate::circuit::Circuit;
+use crate::logic::Expr;
+use crate::spec::{OutputDef, Spec, SpecBody};
+use rayon::prelude::*;
+use serde::Serialize;
+use std::fmt;
+use std::sync::atomic::{AtomicU64, Ordering};
+
+/// Words (of 64 basis states) per block.
+pub const BLOCK_WORDS: usize = 64;
+
+/// Default for [`VerifyOptions::max_states`]: 2^30 basis states.
+pub const DEFAULT_MAX_STATES: u64 = 1 << 30;
+
+/// Options of a verification run.
+#[derive(Clone, Copy, Debug)]
+pub struct VerifyOptions {
+    /// The most basis states to simulate; past it the run is refused (`--max-states`).
+    pub max_states: u64,
+}
+
+impl Default for VerifyOptions {
+    fn default() -> Self {
+        VerifyOptions {
+            max_states: DEFAULT_MAX_STATES,
+        }
+    }
+}
+
+/// The value of one register in a counterexample.
+#[derive(Clone, Debug, PartialEq, Eq, Serialize)]
+pub struct RegisterValue {
+    /// Register name.
+    pub register: String,
+    /// Bits, most significant first, as `0b...`.
+    pub bits: String,
+    /// The value as an integer when it fits in 64 bits.
+    pub value: Option<u64>,
+}
+
+impl RegisterValue {
+    fn new(register: &str, bits: &[bool]) -> Self {
+        let text: String = bits.iter().rev().map(|&b| if b { '1' } else { '0' }).collect();
+        let value = (bits.len() <= 64).then(|| {
+            bits.iter()
+                .enumerate()
+                .fold(0u64, |v, (i, &b)| v | (b as u64) << i)
+        });
+        RegisterValue {
+            register: register.to_string(),
+            bits: format!("0b{text}"),
+            value,
+        }
+    }
+}
+
+impl fmt::Display for RegisterValue {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        match self.value {
+            Some(v) => write!(f, "{}={} ({})", self.register, v, self.bits),
+            None => write!(f, "{}={}", self.register, self.bits),
+        }
+    }
+}
+
+/// One basis state on which the circuit does not do what the spec says.
+#[derive(Clone, Debug, PartialEq, Eq, Serialize)]
+pub struct Counterexample {
+    /// The basis state's number (see the module docs for the bit order).
+    pub state: u64,
+    /// The registers going in.
+    pub input: Vec<RegisterValue>,
+    /// The registers the spec asks for coming out.
+    pub expected: Vec<RegisterValue>,
+    /// The registers the circuit gives.
+    pub actual: Vec<RegisterValue>,
+    /// The first line that differs, in words.
+    pub problem: String,
+}
+
+impl fmt::Display for Counterexample {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        let join = |v: &[RegisterValue]| {
+            v.iter().map(|r| r.to_string()).collect::<Vec<_>>().join(" ")
+        };
+        writeln!(f, "input    {}", join(&self.input))?;
+        writeln!(f, "expected {}", join(&self.expected))?;
+        writeln!(f, "actual   {}", join(&self.actual))?;
+        write!(f, "{}", self.problem)
+    }
+}
+
+/// The outcome of a verification that ran.
+#[derive(Clone, Debug, PartialEq, Eq, Serialize)]
+#[serde(tag = "verdict", rename_all = "lowercase")]
+pub enum Verdict {
+    /// Every basis state checked and correct.
+    Proven {
+        /// How many basis states were simulated.
+        states: u64,
+    },
+    /// A basis state where the circuit is wrong.
+    Refuted {
+        /// The first failing state found.
+        counterexample: Box<Counterexample>,
+    },
+}
+
+/// Why a verification could not run.
+#[derive(Clone, Debug, PartialEq, Eq, thiserror::Error)]
+pub enum VerifyError {
+    /// Too many basis states for the exhaustive check.
+    #[error("exhaustive verification needs 2^{bits} basis states, over the limit of {limit}; raise it with --max-states (nothing was verified)")]
+    TooLarge {
+        /// Free lines, so `2^bits` states.
+        bits: u32,
+        /// The limit in force.
+        limit: u64,
+    },
+    /// The circuit's registers do not fit the spec.
+    #[error("the circuit does not fit the spec: {0}")]
+    Binding(String),
+    /// The spec kind has no reference model in this verifier yet.
+    #[error("no reference model for {0} specs in this verifier")]
+    Unsupported(&'static str),
+}
+
+/// One output's reference.
+enum Reference<'a> {
+    Words(&'a [u64], usize),
+    Expr(&'a Expr),
+}
+
+/// What to compare each line against.
+enum Model<'a> {
+    Function {
+        inputs: usize,
+        outputs: Vec<Reference<'a>>,
+    },
+    Permutation {
+        images: &'a [u64],
+    },
+}
+
+/// Gate in the verifier's own form: controls as (line, fire-on-1) pairs.
+struct Op {
+    target: usize,
+    controls: Vec<(usize, bool)>,
+}
+
+struct Binding {
+    /// Circuit line of each free state bit.
+    free: Vec<usize>,
+    /// Lines that must end at 0.
+    ancillae: Vec<usize>,
+    /// (register, lines in index order) for reports.
+    registers: Vec<(String, Vec<usize>)>,
+}
+
+fn bind(circuit: &Circuit, expect: &[(&str, usize)]) -> Result<Binding, VerifyError> {
+    let mut free = Vec::new();
+    let mut registers = Vec::new();
+    let known: Vec<&str> = expect.iter().map(|(n, _)| *n).collect();
+    for (name, size) in expect {
+        let lines: Vec<usize> = circuit.register(name).iter().map(|l| l.index()).collect();
+        if lines.len() != *size {
+            return Err(VerifyError::Binding(format!(
+                "register '{name}' should have {size} lines, it has {}",
+                lines.len()
+            )));
+        }
+        free.extend(&lines);
+        registers.push((name.to_string(), lines));
+    }
+    let mut ancillae = Vec::new();
+    for (name, _) in circuit.registers() {
+        if known.contains(&name.as_str()) {
+            continue;
+        }
+        if name != "anc" {
+            return Err(VerifyError::Binding(format!(
+                "register '{name}' is neither one of {} nor the ancilla register 'anc'",
+                known.join(", ")
+            )));
+        }
+        let lines: Vec<usize> = circuit.register(&name).iter().map(|l| l.index()).collect();
+        ancillae.extend(&lines);
+        registers.push((name, lines));
+    }
+    Ok(Binding {
+        free,
+        ancillae,
+        registers,
+    })
+}
+
+/// Proves or refutes that `circuit` realizes `spec` on every basis state.
+pub fn verify(circuit: &Circuit, spec: &Spec, opts: &VerifyOptions) -> Result<Verdict, VerifyError> {
+    verify_with_progress(circuit, spec, opts, &|_, _| {})
+}
+
+/// [`verify`], calling `progress(states done, states in all)` as blocks finish
+/// (from several threads; the calls are not ordered).
+pub fn verify_with_progress(
+    circuit: &Circuit,
+    spec: &Spec,
+    opts: &VerifyOptions,
+    progress: &(dyn Fn(u64, u64) + Sync),
+) -> Result<Verdict, VerifyError> {
+    let (binding, model) = match &spec.body {
+        SpecBody::Function(f) => {
+            let b = bind(circuit, &[("x", f.inputs.len()), ("y", f.outputs.len())])?;
+            let outputs = f
+                .outputs
+                .iter()
+                .map(|o| match &o.def {
+                    OutputDef::Table(t) => Reference::Words(t.words(), t.len()),
+                    OutputDef::Expr(e) => Reference::Expr(e),
+                })
+                .collect();
+            (
+                b,
+                Model::Function {
+                    inputs: f.inputs.len(),
+                    outputs,
+                },
+            )
+        }
+        SpecBody::Permutation(p) => (
+            bind(circuit, &[("x", p.width())])?,
+            Model::Permutation { images: p.images() },
+        ),
+        SpecBody::Arithmetic(_) => return Err(VerifyError::Unsupported("arithmetic")),
+    };
+    let bits = binding.free.len() as u32;
+    if bits >= 63 || (1u64 << bits) > opts.max_states {
+        return Err(VerifyError::TooLarge {
+            bits,
+            limit: opts.max_states,
+        });
+    }
+    let states = 1u64 << bits;
+    let ops: Vec<Op> = circuit
+        .gates()
+        .iter()
+        .map(|g| Op {
+            target: g.target().index(),
+            controls: g.controls().iter().map(|c| (c.line.index(), c.positive)).collect(),
+        })
+        .collect();
+    let checker = Checker {
+        width: circuit.width(),
+        ops,
+        binding,
+        model,
+        states,
+    };
+    let words = states.div_ceil(64);
+    let blocks = words.div_ceil(BLOCK_WORDS as u64);
+    let done = AtomicU64::new(0);
+    let failure = (0..blocks).into_par_iter().find_map_first(|b| {
+        let r = checker.block(b * BLOCK_WORDS as u64);
+        let d = done.fetch_add(64 * BLOCK_WORDS as u64, Ordering::Relaxed);
+        progress((d + 64 * BLOCK_WORDS as u64).min(states), states);
+        r
+    });
+    Ok(match failure {
+        None => Verdict::Proven { states },
+        Some(state) => Verdict::Refuted {
+            counterexample: Box::new(checker.explain(state)),
+        },
+    })
+}
+
+struct Checker<'a> {
+    width: usize,
+    ops: Vec<Op>,
+    binding: Binding,
+    model: Model<'a>,
+    states: u64,
+}
+
+/// Bit `k` of the result is bit `bit` of `k`.
+const fn low_pattern(bit: usize) -> u64 {
+    let mut acc = 0u64;
+    let mut k = 0;
+    while k < 64 {
+        if (k >> bit) & 1 == 1 {
+            acc |= 1 << k;
+        }
+        k += 1;
+    }
+    acc
+}
+
+const LOW: [u64; 6] = [
+    low_pattern(0),
+    low_pattern(1),
+    low_pattern(2),
+    low_pattern(3),
+    low_pattern(4),
+    low_pattern(5),
+];
+
+/// Word `w` (states `64 w ..`) of the pattern of state bit `bit`.
+fn free_word(bit: usize, w: u64) -> u64 {
+    if bit < 6 {
+        LOW[bit]
+    } else if (w >> (bit - 6)) & 1 == 1 {
+        !0
+    } else {
+        0
+    }
+}
+
+fn eval(e: &Expr, x: &dyn Fn(usize) -> u64) -> u64 {
+    match e {
+        Expr::Const(true) => !0,
+        Expr::Const(false) => 0,
+        Expr::Var(j) => x(*j),
+        Expr::Not(a) => !eval(a, x),
+        Expr::And(v) => v.iter().map(|a| eval(a, x)).fold(!0, |p, q| p & q),
+        Expr::Xor(v) => v.iter().map(|a| eval(a, x)).fold(0, |p, q| p ^ q),
+        Expr::Or(v) => v.iter().map(|a| eval(a, x)).fold(0, |p, q| p | q),
+    }
+}
+
+impl Checker<'_> {
+    /// Simulates one block starting at word `first`; returns the first failing state.
+    fn block(&self, first: u64) -> Option<u64> {
+        let total_words = self.states.div_ceil(64);
+        let n_words = (total_words - first).min(BLOCK_WORDS as u64) as usize;
+        let mut st = vec![0u64; self.width * BLOCK_WORDS];
+        for (bit, &line) in self.binding.free.iter().enumerate() {
+            for w in 0..n_words {
+                st[line * BLOCK_WORDS + w] = free_word(bit, first + w as u64);
+            }
+        }
+        for op in &self.ops {
+            let mut fire = [!0u64; BLOCK_WORDS];
+            for &(c, positive) in &op.controls {
+                let flip = if positive { 0 } else { !0 };
+                let row = &st[c * BLOCK_WORDS..(c + 1) * BLOCK_WORDS];
+                for (f, &v) in fire.iter_mut().zip(row) {
+                    *f &= v ^ flip;
+                }
+            }
+            let row = &mut st[op.target * BLOCK_WORDS..(op.target + 1) * BLOCK_WORDS];
+            for (v, f) in row.iter_mut().zip(fire) {
+                *v ^= f;
+            }
+        }
+        let valid = if self.states < 64 {
+            (1u64 << self.states) - 1
+        } else {
+            !0
+        };
+        let mut expected = Vec::with_capacity(self.binding.free.len());
+        for w in 0..n_words {
+            let word = first + w as u64;
+            let at = |line: usize| st[line * BLOCK_WORDS + w];
+            let mut bad = 0u64;
+            for &a in &self.binding.ancillae {
+                bad |= at(a);
+            }
+            self.expected_words(word, &mut expected);
+            for (&line, e) in self.binding.free.iter().zip(&expected) {
+                bad |= at(line) ^ e;
+            }
+            bad &= valid;
+            if bad != 0 {
+                return Some(word * 64 + bad.trailing_zeros() as u64);
+            }
+        }
+        None
+    }
+
+    /// Expected value of every free line, for the 64 states of word `w`, into `out`.
+    fn expected_words(&self, w: u64, out: &mut Vec<u64>) {
+        let nfree = self.binding.free.len();
+        out.clear();
+        match &self.model {
+            Model::Function { inputs, outputs } => {
+                let n = *inputs;
+                out.extend((0..n).map(|b| free_word(b, w)));
+                for (k, r) in outputs.iter().enumerate() {
+                    let f = match r {
+                        Reference::Expr(e) => eval(e, &|j| free_word(j, w)),
+                        // x is the low n bits of the state number.
+                        Reference::Words(words, len) if *len >= 64 => {
+                            words[(w % (*len as u64 / 64)) as usize]
+                        }
+                        Reference::Words(words, len) => (0..64).fold(0u64, |acc, k| {
+                            acc | ((words[0] >> (k % *len as u64)) & 1) << k
+                        }),
+                    };
+                    out.push(free_word(n + k, w) ^ f);
+                }
+            }
+            Model::Permutation { images } => {
+                out.resize(nfree, 0);
+                for k in 0..64u64 {
+                    let s = w * 64 + k;
+                    if s >= self.states {
+                        break;
+                    }
+                    let img = images[s as usize];
+                    for (j, o) in out.iter_mut().enumerate() {
+                        *o |= ((img >> j) & 1) << k;
+                    }
+                }
+            }
+        }
+    }
+
+    /// Re-simulates the failing `state` alone and describes it.
+    fn explain(&self, state: u64) -> Counterexample {
+        let mut v = vec![false; self.width];
+        for (bit, &line) in self.binding.free.iter().enumerate() {
+            v[line] = (state >> bit) & 1 == 1;
+        }
+        let before = v.clone();
+        for op in &self.ops {
+            if op.controls.iter().all(|&(c, p)| v[c] == p) {
+                v[op.target] = !v[op.target];
+            }
+        }
+        let mut word = Vec::new();
+        self.expected_words(state / 64, &mut word);
+        let mut want = vec![false; self.width];
+        for (&line, e) in self.binding.free.iter().zip(&word) {
+            want[line] = (e >> (state % 64)) & 1 == 1;
+        }
+        let show = |vals: &[bool]| -> Vec<RegisterValue> {
+            self.binding
+                .registers
+                .iter()
+                .map(|(name, lines)| {
+                    let bits: Vec<bool> = lines.iter().map(|&l| vals[l]).collect();
+                    RegisterValue::new(name, &bits)
+                })
+                .collect()
+        };
+        let mut problem = String::from("no difference found on re-simulation");
+        'find: for (name, lines) in &self.binding.registers {
+            for (i, &l) in lines.iter().enumerate() {
+                if v[l] != want[l] {
+                    let what = if self.binding.ancillae.contains(&l) {
+                        "ancilla is not returned to 0"
+                    } else {
+                        "line differs from the spec"
+                    };
+                    problem = format!(
+                        "{name}[{i}] is {}, expected {}: {what}",
+                        v[l] as u8, want[l] as u8
+                    );
+                    break 'find;
+                }
+            }
+        }
+        Counterexample {
+            state,
+            input: show(&before)
+                .into_iter()
+                .filter(|r| r.register != "anc")
+                .collect(),
+            expected: show(&want),
+            actual: show(&v),
+            problem,
+        }
+    }
+}
