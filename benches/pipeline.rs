@@ -1,1 +1,110 @@
-fn main() {}
+//! Figures for BENCHMARKS.md: verifier throughput and synthesis time.
+//! Run with `cargo bench --bench pipeline`; it prints one line per figure.
+
+use oraculum::{
+    build, lower, parse_spec, synthesize, verify, BuildOptions, Method, SynthLimits, VerifyOptions,
+};
+use std::time::Instant;
+
+/// A small deterministic generator (SplitMix64), so every run measures the same inputs.
+struct Mix(u64);
+impl Mix {
+    fn next(&mut self) -> u64 {
+        self.0 = self.0.wrapping_add(0x9e37_79b9_7f4a_7c15);
+        let mut z = self.0;
+        z = (z ^ (z >> 30)).wrapping_mul(0xbf58_476d_1ce4_e5b9);
+        z = (z ^ (z >> 27)).wrapping_mul(0x94d0_49bb_1331_11eb);
+        z ^ (z >> 31)
+    }
+}
+
+fn names(n: usize) -> String {
+    (0..n)
+        .map(|i| format!("\"v{i}\""))
+        .collect::<Vec<_>>()
+        .join(", ")
+}
+
+/// A 20-input, one-output spec: XOR of 200 random products of 2 to 5 inputs.
+fn spec_20(rng: &mut Mix) -> String {
+    let terms: Vec<String> = (0..200)
+        .map(|_| {
+            let k = 2 + (rng.next() % 4) as usize;
+            let mut vars: Vec<usize> = Vec::new();
+            while vars.len() < k {
+                let v = (rng.next() % 20) as usize;
+                if !vars.contains(&v) {
+                    vars.push(v);
+                }
+            }
+            vars.iter()
+                .map(|v| format!("v{v}"))
+                .collect::<Vec<_>>()
+                .join(" & ")
+        })
+        .collect();
+    format!(
+        "kind = \"function\"\ninputs = [{}]\noutputs = [\"f\"]\n[expr]\nf = \"{}\"\n",
+        names(20),
+        terms.join(" ^ ")
+    )
+}
+
+/// A random `n`-input, one-output table spec.
+fn random_table(rng: &mut Mix, n: usize) -> String {
+    let digits: String = (0..(1usize << n) / 4)
+        .map(|_| char::from_digit((rng.next() % 16) as u32, 16).unwrap())
+        .collect();
+    format!(
+        "kind = \"function\"\ninputs = [{}]\noutputs = [\"f\"]\n[table]\nf = \"0x{digits}\"\n",
+        names(n)
+    )
+}
+
+fn main() {
+    let mut rng = Mix(2026);
+    let threads = rayon::current_num_threads();
+
+    let spec = parse_spec("bench20", &spec_20(&mut rng)).unwrap();
+    let lowered = lower(&synthesize(&spec, Method::Auto, &SynthLimits::default()).unwrap());
+    let gates = lowered.gates().len() as f64;
+    let mut best = f64::MAX;
+    let mut states = 0;
+    for _ in 0..3 {
+        let t = Instant::now();
+        let v = verify(&lowered, &spec, &VerifyOptions::default()).unwrap();
+        best = best.min(t.elapsed().as_secs_f64());
+        if let oraculum::Verdict::Proven { states: s } = v {
+            states = s;
+        } else {
+            panic!("the benchmark circuit must verify");
+        }
+    }
+    println!(
+        "verify 20-input function: {states} basis states x {gates} gates in {best:.3} s = {:.3e} gate-state evaluations/s ({threads} threads)",
+        states as f64 * gates / best
+    );
+
+    for n in [12usize, 16] {
+        let spec = parse_spec("random", &random_table(&mut rng, n)).unwrap();
+        let out = build(
+            &spec,
+            &BuildOptions {
+                method: Method::ReedMuller,
+                verify: Some(VerifyOptions::default()),
+                ..Default::default()
+            },
+        )
+        .unwrap();
+        assert!(out.verification.is_proven());
+        println!(
+            "reed-muller random {n}-input function: {} MCT gates, {} Toffoli, {} qubits; synth {:.3} s, lower {:.3} s, verify {:.3} s",
+            out.cost.mct_total(),
+            out.cost.toffoli,
+            out.cost.qubits,
+            out.timings.synth,
+            out.timings.lower,
+            out.timings.verify
+        );
+    }
+}

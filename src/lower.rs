@@ -110,10 +110,20 @@ mod tests {
 
     #[test]
     fn negative_controls_are_conjugated() {
-        let g = Gate::new(vec![Control::neg(0), Control::pos(1), Control::neg(2)], Line(3)).unwrap();
+        let g = Gate::new(
+            vec![Control::neg(0), Control::pos(1), Control::neg(2)],
+            Line(3),
+        )
+        .unwrap();
         let c = Circuit::from_parts(lines(4), vec![g.clone()]).unwrap();
         let low = lower(&c);
-        assert_eq!(low.gates().iter().filter(|g| g.controls().is_empty()).count(), 4);
+        assert_eq!(
+            low.gates()
+                .iter()
+                .filter(|g| g.controls().is_empty())
+                .count(),
+            4
+        );
         for s in 0..16 {
             assert_eq!(low.simulate(s), g.apply(s));
         }

@@ -20,12 +20,6 @@ pub struct BuildOptions {
     pub verify: Option<VerifyOptions>,
 }
 
-impl Default for Method {
-    fn default() -> Self {
-        Method::Auto
-    }
-}
-
 /// Whether and how the circuit was checked.
 #[derive(Clone, Debug, PartialEq, Eq, Serialize)]
 #[serde(untagged)]
@@ -92,7 +86,8 @@ impl BuildError {
     pub fn is_limit(&self) -> bool {
         matches!(
             self,
-            BuildError::Synth(SynthError::Limit { .. }) | BuildError::Verify(VerifyError::TooLarge { .. })
+            BuildError::Synth(SynthError::Limit { .. })
+                | BuildError::Verify(VerifyError::TooLarge { .. })
         )
     }
 }

@@ -98,11 +98,7 @@ fn depths(c: &Circuit) -> (usize, usize) {
 
 impl fmt::Display for Cost {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
-        let mct: Vec<String> = self
-            .mct
-            .iter()
-            .map(|(k, n)| format!("{n}x{k}"))
-            .collect();
+        let mct: Vec<String> = self.mct.iter().map(|(k, n)| format!("{n}x{k}")).collect();
         writeln!(
             f,
             "  qubits {:<6} toffoli {:<7} cnot {:<7} not {:<6}",

@@ -137,7 +137,11 @@ pub fn run() -> i32 {
         Ok(c) => c,
         Err(e) => {
             let _ = e.print();
-            return if e.use_stderr() { code::BAD_INPUT } else { code::DONE };
+            return if e.use_stderr() {
+                code::BAD_INPUT
+            } else {
+                code::DONE
+            };
         }
     };
     match dispatch(cli.command) {
@@ -159,7 +163,15 @@ fn dispatch(cmd: Command) -> Result<i32, Failure> {
             no_verify,
             format,
             limits,
-        } => synth(&spec, output.as_deref(), &method, json, no_verify, format, &limits),
+        } => synth(
+            &spec,
+            output.as_deref(),
+            &method,
+            json,
+            no_verify,
+            format,
+            &limits,
+        ),
         Command::Verify {
             circuit,
             spec,
@@ -202,9 +214,9 @@ fn progress_bar(json: bool) -> impl Fn(u64, u64) + Sync {
         }
         let b = bar.get_or_init(|| {
             let b = ProgressBar::new(total);
-            if let Ok(style) =
-                ProgressStyle::with_template("verifying {bar:40} {percent}% of {len} basis states, {eta} left")
-            {
+            if let Ok(style) = ProgressStyle::with_template(
+                "verifying {bar:40} {percent}% of {len} basis states, {eta} left",
+            ) {
                 b.set_style(style);
             }
             b
@@ -251,7 +263,11 @@ fn write_atomic(path: &Path, contents: &str, protect: &[&Path]) -> Result<(), Fa
 
 fn verdict_failure(e: oraculum::BuildError) -> Failure {
     Failure {
-        code: if e.is_limit() { code::LIMIT } else { code::BAD_INPUT },
+        code: if e.is_limit() {
+            code::LIMIT
+        } else {
+            code::BAD_INPUT
+        },
         message: e.to_string(),
     }
 }
@@ -287,7 +303,10 @@ fn synth(
     let out = build_with_progress(&spec, &opts, &bar).map_err(verdict_failure)?;
     if let oraculum::Verification::Ran(Verdict::Refuted { counterexample }) = &out.verification {
         if json {
-            println!("{}", serde_json::to_string_pretty(&out.report()).unwrap_or_default());
+            println!(
+                "{}",
+                serde_json::to_string_pretty(&out.report()).unwrap_or_default()
+            );
         }
         return Err(Failure {
             code: code::REFUTED,
@@ -305,7 +324,10 @@ fn synth(
     if let Some(path) = output {
         write_atomic(path, &text, &[spec_path])?;
     }
-    let label = out.name.clone().unwrap_or_else(|| spec_path.display().to_string());
+    let label = out
+        .name
+        .clone()
+        .unwrap_or_else(|| spec_path.display().to_string());
     if json {
         let mut v = serde_json::to_value(out.report()).unwrap_or_default();
         if let Some(obj) = v.as_object_mut() {
@@ -323,10 +345,7 @@ fn synth(
         }
         _ => "NOT verified (--no-verify)".to_string(),
     };
-    let summary = format!(
-        "{label}: method {}, {verdict}\n{}\n",
-        out.method, out.cost
-    );
+    let summary = format!("{label}: method {}, {verdict}\n{}\n", out.method, out.cost);
     match output {
         Some(p) => {
             print!("{summary}");
@@ -345,15 +364,14 @@ fn verify_file(circuit: &Path, spec: &Path, json: bool, max_states: u64) -> Resu
     let s = load_spec(spec)?;
     let bar = progress_bar(json);
     let t = Instant::now();
-    let verdict = verify_with_progress(&c, &s, &VerifyOptions { max_states }, &bar).map_err(|e| {
-        Failure {
+    let verdict =
+        verify_with_progress(&c, &s, &VerifyOptions { max_states }, &bar).map_err(|e| Failure {
             code: match e {
                 VerifyError::TooLarge { .. } => code::LIMIT,
                 _ => code::BAD_INPUT,
             },
             message: format!("{}: {e}", circuit.display()),
-        }
-    })?;
+        })?;
     let seconds = t.elapsed().as_secs_f64();
     let refuted = matches!(verdict, Verdict::Refuted { .. });
     if json {
@@ -384,11 +402,16 @@ fn verify_file(circuit: &Path, spec: &Path, json: bool, max_states: u64) -> Resu
 fn cost(circuit: &Path, json: bool) -> Result<i32, Failure> {
     let c = load_circuit(circuit)?;
     if c.max_controls() > 2 {
-        return Err(Failure::bad("the circuit has gates with more than two controls"));
+        return Err(Failure::bad(
+            "the circuit has gates with more than two controls",
+        ));
     }
     let cost = Cost::measure(&c, &c);
     if json {
-        println!("{}", serde_json::to_string_pretty(&cost).unwrap_or_default());
+        println!(
+            "{}",
+            serde_json::to_string_pretty(&cost).unwrap_or_default()
+        );
     } else {
         println!("{}\n{cost}", circuit.display());
     }

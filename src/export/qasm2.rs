@@ -60,7 +60,13 @@ pub fn write_qasm(c: &Circuit, header: &QasmHeader) -> Result<String, WriteError
         } else {
             format!(" = {}", l.label.replace('\n', " "))
         };
-        let _ = writeln!(s, "//   {}[{}]{label} ({})", l.register, l.index, role_word(l.role));
+        let _ = writeln!(
+            s,
+            "//   {}[{}]{label} ({})",
+            l.register,
+            l.index,
+            role_word(l.role)
+        );
     }
     for (name, size) in c.registers() {
         let mut chars = name.chars();
@@ -191,7 +197,11 @@ pub fn read_qasm(path: &str, text: &str) -> Result<Circuit, LocatedError> {
                     lines.push(LineInfo {
                         register: name.clone(),
                         index: i,
-                        role: if name == "anc" { Role::Ancilla } else { Role::Data },
+                        role: if name == "anc" {
+                            Role::Ancilla
+                        } else {
+                            Role::Data
+                        },
                         label: format!("{name}[{i}]"),
                     });
                 }
@@ -234,7 +244,10 @@ pub fn read_qasm(path: &str, text: &str) -> Result<Circuit, LocatedError> {
                 }
             }
             "" => {
-                return Err(src.error(at, format!("unexpected '{}'", stmt.chars().next().unwrap_or(' '))));
+                return Err(src.error(
+                    at,
+                    format!("unexpected '{}'", stmt.chars().next().unwrap_or(' ')),
+                ));
             }
             other => {
                 return Err(src
@@ -246,7 +259,8 @@ pub fn read_qasm(path: &str, text: &str) -> Result<Circuit, LocatedError> {
     if !seen_version {
         return Err(src.error(0, "an OpenQASM 2 file starts with 'OPENQASM 2.0;'"));
     }
-    Ok(Circuit::from_parts(lines, gates).expect("operands were resolved against declared registers"))
+    Ok(Circuit::from_parts(lines, gates)
+        .expect("operands were resolved against declared registers"))
 }
 
 fn parse_index(src: &Source, text: &str, at: usize) -> Result<(String, Option<u32>), LocatedError> {
@@ -254,12 +268,14 @@ fn parse_index(src: &Source, text: &str, at: usize) -> Result<(String, Option<u3
     let lead = at + (text.len() - text.trim_start().len());
     let (name, index) = match t.find('[') {
         Some(k) => {
-            let close = t.rfind(']').filter(|&c| c == t.len() - 1).ok_or_else(|| {
-                src.error(lead + k, "expected ']' at the end of the operand")
-            })?;
-            let idx: u32 = t[k + 1..close].trim().parse().map_err(|_| {
-                src.error(lead + k + 1, "an index is a whole number")
-            })?;
+            let close = t
+                .rfind(']')
+                .filter(|&c| c == t.len() - 1)
+                .ok_or_else(|| src.error(lead + k, "expected ']' at the end of the operand"))?;
+            let idx: u32 = t[k + 1..close]
+                .trim()
+                .parse()
+                .map_err(|_| src.error(lead + k + 1, "an index is a whole number"))?;
             (t[..k].trim(), Some(idx))
         }
         None => (t, None),
@@ -277,7 +293,10 @@ fn parse_decl(src: &Source, text: &str, at: usize) -> Result<(String, u32), Loca
     let (name, size) = parse_index(src, text, at)?;
     match size {
         Some(s) if s > 0 => Ok((name, s)),
-        _ => Err(src.error(at, "a register is declared as name[size] with size at least 1")),
+        _ => Err(src.error(
+            at,
+            "a register is declared as name[size] with size at least 1",
+        )),
     }
 }
 
@@ -303,7 +322,10 @@ fn parse_operands(
             Some(i) if i >= reg.size => {
                 return Err(src.error(
                     lead,
-                    format!("{name}[{i}] is past the end of '{name}', which has {} qubits", reg.size),
+                    format!(
+                        "{name}[{i}] is past the end of '{name}', which has {} qubits",
+                        reg.size
+                    ),
                 ))
             }
             Some(i) => out.push((reg.first + i, None)),
@@ -322,7 +344,10 @@ mod tests {
         let text = "OPENQASM 2.0;\ninclude \"qelib1.inc\"; // the standard library\nqreg x[2];\nqreg y[1];\ncreg c[1];\nccx x[0],x[1],y[0];\nCX x[0], y[0];\nx y;\nbarrier x;\nmeasure y[0] -> c[0];\n";
         let c = read_qasm("t.qasm", text).unwrap();
         assert_eq!(c.width(), 3);
-        assert_eq!(c.gates(), &[Gate::toffoli(0, 1, 2), Gate::cnot(0, 2), Gate::not(2)]);
+        assert_eq!(
+            c.gates(),
+            &[Gate::toffoli(0, 1, 2), Gate::cnot(0, 2), Gate::not(2)]
+        );
         let again = write_qasm(&c, &QasmHeader::default()).unwrap();
         assert_eq!(read_qasm("again", &again).unwrap().gates(), c.gates());
 

@@ -11,15 +11,32 @@ pub fn listing(c: &Circuit) -> String {
         format!("{}[{}]", l.register, l.index)
     };
     for (i, l) in c.lines().iter().enumerate() {
-        let _ = writeln!(s, "line {i:>4}  {:<10} {:<8} {}", name(i), format!("{:?}", l.role).to_lowercase(), l.label);
+        let _ = writeln!(
+            s,
+            "line {i:>4}  {:<10} {:<8} {}",
+            name(i),
+            format!("{:?}", l.role).to_lowercase(),
+            l.label
+        );
     }
     for (k, g) in c.gates().iter().enumerate() {
         let controls: Vec<String> = g
             .controls()
             .iter()
-            .map(|ctl| format!("{}{}", if ctl.positive { "" } else { "!" }, name(ctl.line.index())))
+            .map(|ctl| {
+                format!(
+                    "{}{}",
+                    if ctl.positive { "" } else { "!" },
+                    name(ctl.line.index())
+                )
+            })
             .collect();
-        let _ = writeln!(s, "gate {k:>4}  [{}] -> {}", controls.join(" "), name(g.target().index()));
+        let _ = writeln!(
+            s,
+            "gate {k:>4}  [{}] -> {}",
+            controls.join(" "),
+            name(g.target().index())
+        );
     }
     s
 }

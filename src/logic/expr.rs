@@ -282,12 +282,27 @@ mod tests {
     #[test]
     fn precedence_follows_c() {
         // a | b & c == a | (b & c)
-        assert_eq!(table("a | b & c", &["a", "b", "c"]), table("a | (b & c)", &["a", "b", "c"]));
-        assert_ne!(table("a | b & c", &["a", "b", "c"]), table("(a | b) & c", &["a", "b", "c"]));
+        assert_eq!(
+            table("a | b & c", &["a", "b", "c"]),
+            table("a | (b & c)", &["a", "b", "c"])
+        );
+        assert_ne!(
+            table("a | b & c", &["a", "b", "c"]),
+            table("(a | b) & c", &["a", "b", "c"])
+        );
         // a ^ b & c == a ^ (b & c); a | b ^ c == a | (b ^ c)
-        assert_eq!(table("a ^ b & c", &["a", "b", "c"]), table("a ^ (b & c)", &["a", "b", "c"]));
-        assert_eq!(table("a | b ^ c", &["a", "b", "c"]), table("a | (b ^ c)", &["a", "b", "c"]));
-        assert_ne!(table("a | b ^ c", &["a", "b", "c"]), table("(a | b) ^ c", &["a", "b", "c"]));
+        assert_eq!(
+            table("a ^ b & c", &["a", "b", "c"]),
+            table("a ^ (b & c)", &["a", "b", "c"])
+        );
+        assert_eq!(
+            table("a | b ^ c", &["a", "b", "c"]),
+            table("a | (b ^ c)", &["a", "b", "c"])
+        );
+        assert_ne!(
+            table("a | b ^ c", &["a", "b", "c"]),
+            table("(a | b) ^ c", &["a", "b", "c"])
+        );
         // !a & b == (!a) & b
         assert_eq!(table("!a & b", &["a", "b"]), 0b0100);
         assert_eq!(table("~(a & b)", &["a", "b"]), 0b0111);

@@ -37,7 +37,9 @@ pub enum PermutationError {
         limit: u64,
     },
     /// Two inputs map to the same image.
-    #[error("image {value} at position {index} already appears at position {first}: not a bijection")]
+    #[error(
+        "image {value} at position {index} already appears at position {first}: not a bijection"
+    )]
     Repeated {
         /// Position of the second occurrence.
         index: usize,
@@ -154,7 +156,11 @@ mod tests {
         ));
         assert!(matches!(
             Permutation::new(2, vec![1, 0, 1, 2]),
-            Err(PermutationError::Repeated { index: 2, first: 0, .. })
+            Err(PermutationError::Repeated {
+                index: 2,
+                first: 0,
+                ..
+            })
         ));
     }
 

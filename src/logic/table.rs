@@ -84,7 +84,9 @@ impl TruthTable {
         if vars > MAX_TABLE_VARS {
             return Err(err(
                 0,
-                format!("a truth table takes at most {MAX_TABLE_VARS} inputs, this spec has {vars}"),
+                format!(
+                    "a truth table takes at most {MAX_TABLE_VARS} inputs, this spec has {vars}"
+                ),
             ));
         }
         let (radix_bits, body_start) = if text.starts_with("0x") || text.starts_with("0X") {
@@ -146,7 +148,9 @@ impl TruthTable {
                         let (at, _) = digits[digits.len() - 1 - k];
                         return Err(err(
                             at,
-                            format!("bit {bit} is set, but {vars} inputs give only {size} table bits"),
+                            format!(
+                                "bit {bit} is set, but {vars} inputs give only {size} table bits"
+                            ),
                         ));
                     }
                     t.bits.set(bit, true);
@@ -241,7 +245,7 @@ mod tests {
         // One input has 2 table bits; 0x4 sets bit 2.
         let e = TruthTable::parse("0x4", 1).unwrap_err();
         assert!(e.message.contains("bit 2"), "{}", e.message);
-        assert_eq!(TruthTable::parse("0x2", 1).unwrap().get(1), true);
+        assert!(TruthTable::parse("0x2", 1).unwrap().get(1));
         let e = TruthTable::parse("0xg8", 3).unwrap_err();
         assert_eq!(e.offset, 2);
         assert_eq!(TruthTable::parse("0x_e8", 3).unwrap().to_hex(), "0xe8");

@@ -82,8 +82,7 @@ mod tests {
     fn nested_pairs_collapse() {
         let a = Gate::toffoli(0, 1, 3);
         let b = Gate::toffoli(3, 2, 4);
-        let mut c =
-            Circuit::from_parts(lines(5), vec![a.clone(), b.clone(), b, a]).unwrap();
+        let mut c = Circuit::from_parts(lines(5), vec![a.clone(), b.clone(), b, a]).unwrap();
         cancel_pairs(&mut c);
         assert!(c.gates().is_empty());
     }

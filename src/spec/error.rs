@@ -133,7 +133,11 @@ mod tests {
         let l = src.locate(6);
         assert_eq!((l.line, l.column), (2, 1));
         // 'é' is two bytes but one column.
-        let at = src.text.find('=').map(|_| src.text.rfind('=').unwrap()).unwrap();
+        let at = src
+            .text
+            .find('=')
+            .map(|_| src.text.rfind('=').unwrap())
+            .unwrap();
         assert_eq!(src.locate(at).column, 4);
         let e = src.error(at, "here");
         let shown = e.to_string();
@@ -151,8 +155,14 @@ mod tests {
         assert_eq!(src.offset_in_string(&span, "hot & cold", 6), start + 7);
         // With an escape the mapping is unsure: point at the literal.
         let text2 = "fan = \"hot \\u0026 cold\"";
-        let src2 = Source { path: "s", text: text2 };
+        let src2 = Source {
+            path: "s",
+            text: text2,
+        };
         let start2 = text2.find('"').unwrap();
-        assert_eq!(src2.offset_in_string(&(start2..text2.len()), "hot & cold", 6), start2);
+        assert_eq!(
+            src2.offset_in_string(&(start2..text2.len()), "hot & cold", 6),
+            start2
+        );
     }
 }

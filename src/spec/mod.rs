@@ -199,7 +199,10 @@ impl Validator<'_> {
             if let Some(form) = &o.get_ref().form {
                 if form.get_ref() != "xor" {
                     return Err(self
-                        .err(&form.span(), format!("unknown oracle form '{}'", form.get_ref()))
+                        .err(
+                            &form.span(),
+                            format!("unknown oracle form '{}'", form.get_ref()),
+                        )
                         .with_hint("this version builds form = \"xor\""));
                 }
             }
@@ -265,9 +268,9 @@ impl Validator<'_> {
         kind_span: &Range<usize>,
         taken: &mut Vec<String>,
     ) -> Result<Vec<String>, LocatedError> {
-        let list = list.as_ref().ok_or_else(|| {
-            self.err(kind_span, format!("a function spec needs an '{key}' list"))
-        })?;
+        let list = list
+            .as_ref()
+            .ok_or_else(|| self.err(kind_span, format!("a function spec needs an '{key}' list")))?;
         if list.get_ref().is_empty() {
             return Err(self.err(&list.span(), format!("'{key}' is empty")));
         }
@@ -277,7 +280,9 @@ impl Validator<'_> {
             if !is_identifier(s) {
                 return Err(self
                     .err(&n.span(), format!("'{s}' is not a usable name"))
-                    .with_hint("names start with a letter or '_' and hold letters, digits and '_'"));
+                    .with_hint(
+                        "names start with a letter or '_' and hold letters, digits and '_'",
+                    ));
             }
             if taken.contains(s) {
                 return Err(self.err(&n.span(), format!("the name '{s}' is used twice")));
@@ -450,7 +455,10 @@ impl Validator<'_> {
                 Some(v)
             }
             None if uses("modulus") => {
-                return Err(self.err(&op_raw.span(), format!("op '{}' needs 'modulus'", op.name())))
+                return Err(self.err(
+                    &op_raw.span(),
+                    format!("op '{}' needs 'modulus'", op.name()),
+                ))
             }
             None => None,
         };
@@ -474,9 +482,7 @@ impl Validator<'_> {
                 v
             }
             (None, Some(m)) => (64 - (m - 1).leading_zeros() as usize).max(1),
-            (None, None) => {
-                return Err(self.err(&kind_span, "an arithmetic spec needs 'width'"))
-            }
+            (None, None) => return Err(self.err(&kind_span, "an arithmetic spec needs 'width'")),
         };
         let constant = match &raw.constant {
             Some(c) => {
@@ -490,7 +496,10 @@ impl Validator<'_> {
                 Some(v)
             }
             None if uses("constant") => {
-                return Err(self.err(&op_raw.span(), format!("op '{}' needs 'constant'", op.name())))
+                return Err(self.err(
+                    &op_raw.span(),
+                    format!("op '{}' needs 'constant'", op.name()),
+                ))
             }
             None => None,
         };
@@ -498,7 +507,10 @@ impl Validator<'_> {
         if op == ArithOp::Lookup {
             if width > 20 {
                 return Err(self.err(
-                    &raw.width.as_ref().map(|w| w.span()).unwrap_or(kind_span.clone()),
+                    &raw.width
+                        .as_ref()
+                        .map(|w| w.span())
+                        .unwrap_or(kind_span.clone()),
                     "a lookup table takes at most 20 address bits",
                 ));
             }
@@ -579,7 +591,9 @@ fan = "hot & !night | humid ^ hot"
         )
         .unwrap();
         assert_eq!(s.name.as_deref(), Some("greenhouse-vent"));
-        let SpecBody::Function(f) = s.body else { panic!("function kind") };
+        let SpecBody::Function(f) = s.body else {
+            panic!("function kind")
+        };
         assert_eq!(f.inputs, ["hot", "humid", "night"]);
         assert_eq!(f.table(0).unwrap().to_hex(), "0x3e");
         // hot & !night | (humid ^ hot), by precedence.
@@ -592,7 +606,9 @@ fan = "hot & !night | humid ^ hot"
 
     #[test]
     fn locations_of_common_mistakes() {
-        let e = err("kind = \"function\"\ninputs = [\"a\"]\noutputs = [\"f\"]\n[expr]\nf = \"a & b\"\n");
+        let e = err(
+            "kind = \"function\"\ninputs = [\"a\"]\noutputs = [\"f\"]\n[expr]\nf = \"a & b\"\n",
+        );
         assert_eq!(at(&e), (5, 10), "{e}");
         let e = err("kind = \"permutation\"\nwidth = 2\nimages = [0, 1, 1, 3]\n");
         assert_eq!(at(&e), (3, 17), "{e}");

@@ -11,9 +11,10 @@ use crate::spec::{FunctionSpec, Spec, SpecBody};
 use std::fmt;
 
 /// A synthesis method, by its user-visible name.
-#[derive(Clone, Copy, Debug, PartialEq, Eq, Hash)]
+#[derive(Clone, Copy, Debug, Default, PartialEq, Eq, Hash)]
 pub enum Method {
     /// Pick the best method that applies.
+    #[default]
     Auto,
     /// Positive-polarity Reed-Muller expansion, one MCT per monomial.
     ReedMuller,
@@ -24,7 +25,11 @@ pub enum Method {
 impl Method {
     /// Every method with its name and what it takes.
     pub const ALL: [(Method, &'static str, &'static str); 3] = [
-        (Method::Auto, "auto", "the best method that applies to the spec"),
+        (
+            Method::Auto,
+            "auto",
+            "the best method that applies to the spec",
+        ),
         (
             Method::ReedMuller,
             "reed-muller",
@@ -145,7 +150,11 @@ pub fn resolve(spec: &Spec, method: Method) -> Method {
 }
 
 /// Synthesizes a circuit of MCT gates (not yet lowered) for `spec`.
-pub fn synthesize(spec: &Spec, method: Method, limits: &SynthLimits) -> Result<Circuit, SynthError> {
+pub fn synthesize(
+    spec: &Spec,
+    method: Method,
+    limits: &SynthLimits,
+) -> Result<Circuit, SynthError> {
     let method = resolve(spec, method);
     match (&spec.body, method) {
         (SpecBody::Function(f), Method::ReedMuller) => reed_muller(f, limits),

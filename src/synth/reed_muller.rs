@@ -105,7 +105,9 @@ pub fn reed_muller(f: &FunctionSpec, limits: &SynthLimits) -> Result<Circuit, Sy
                 .filter(|i| (s >> i) & 1 == 1)
                 .map(Control::pos)
                 .collect();
-            circuit.push(Gate::new(controls, target).expect("controls are inputs, target is an output"));
+            circuit.push(
+                Gate::new(controls, target).expect("controls are inputs, target is an output"),
+            );
         });
     }
     Ok(circuit)
@@ -132,8 +134,14 @@ mod tests {
     // x ^ y ^ z is linear: three single-variable monomials; NOT x is 1 ^ x.
     #[test]
     fn linear_and_affine_forms() {
-        assert_eq!(monomials(&TruthTable::parse("0x96", 3).unwrap()), vec![1, 2, 4]);
-        assert_eq!(monomials(&TruthTable::parse("0b01", 1).unwrap()), vec![0, 1]);
+        assert_eq!(
+            monomials(&TruthTable::parse("0x96", 3).unwrap()),
+            vec![1, 2, 4]
+        );
+        assert_eq!(
+            monomials(&TruthTable::parse("0b01", 1).unwrap()),
+            vec![0, 1]
+        );
     }
 
     #[test]

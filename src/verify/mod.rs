@@ -54,7 +54,11 @@ pub struct RegisterValue {
 
 impl RegisterValue {
     fn new(register: &str, bits: &[bool]) -> Self {
-        let text: String = bits.iter().rev().map(|&b| if b { '1' } else { '0' }).collect();
+        let text: String = bits
+            .iter()
+            .rev()
+            .map(|&b| if b { '1' } else { '0' })
+            .collect();
         let value = (bits.len() <= 64).then(|| {
             bits.iter()
                 .enumerate()
@@ -95,7 +99,10 @@ pub struct Counterexample {
 impl fmt::Display for Counterexample {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
         let join = |v: &[RegisterValue]| {
-            v.iter().map(|r| r.to_string()).collect::<Vec<_>>().join(" ")
+            v.iter()
+                .map(|r| r.to_string())
+                .collect::<Vec<_>>()
+                .join(" ")
         };
         writeln!(f, "input    {}", join(&self.input))?;
         writeln!(f, "expected {}", join(&self.expected))?;
@@ -209,7 +216,11 @@ fn bind(circuit: &Circuit, expect: &[(&str, usize)]) -> Result<Binding, VerifyEr
 }
 
 /// Proves or refutes that `circuit` realizes `spec` on every basis state.
-pub fn verify(circuit: &Circuit, spec: &Spec, opts: &VerifyOptions) -> Result<Verdict, VerifyError> {
+pub fn verify(
+    circuit: &Circuit,
+    spec: &Spec,
+    opts: &VerifyOptions,
+) -> Result<Verdict, VerifyError> {
     verify_with_progress(circuit, spec, opts, &|_, _| {})
 }
 
@@ -259,7 +270,11 @@ pub fn verify_with_progress(
         .iter()
         .map(|g| Op {
             target: g.target().index(),
-            controls: g.controls().iter().map(|c| (c.line.index(), c.positive)).collect(),
+            controls: g
+                .controls()
+                .iter()
+                .map(|c| (c.line.index(), c.positive))
+                .collect(),
         })
         .collect();
     let checker = Checker {

@@ -1,0 +1,428 @@
+//! Runs the real `oraculum` binary in temporary folders: the README's commands,
+//! exit codes, error locations, and atomic writes.
+
+use std::path::{Path, PathBuf};
+use std::process::{Command, Output};
+
+fn bin() -> Command {
+    Command::new(env!("CARGO_BIN_EXE_oraculum"))
+}
+
+fn repo() -> PathBuf {
+    PathBuf::from(env!("CARGO_MANIFEST_DIR"))
+}
+
+fn run_in(dir: &Path, args: &[&str]) -> Output {
+    bin()
+        .current_dir(dir)
+        .args(args)
+        .output()
+        .expect("the binary runs")
+}
+
+fn text(o: &Output) -> (String, String) {
+    (
+        String::from_utf8_lossy(&o.stdout).into_owned(),
+        String::from_utf8_lossy(&o.stderr).into_owned(),
+    )
+}
+
+/// A temporary folder holding a copy of `specs/`, like a fresh clone.
+fn workspace() -> tempfile::TempDir {
+    let dir = tempfile::tempdir().unwrap();
+    std::fs::create_dir(dir.path().join("specs")).unwrap();
+    for e in std::fs::read_dir(repo().join("specs")).unwrap() {
+        let e = e.unwrap();
+        std::fs::copy(e.path(), dir.path().join("specs").join(e.file_name())).unwrap();
+    }
+    dir
+}
+
+#[test]
+fn readme_first_command_works_on_a_fresh_copy() {
+    let readme = std::fs::read_to_string(repo().join("README.md")).unwrap();
+    let line = readme
+        .lines()
+        .find(|l| l.trim_start().starts_with("cargo run --release -- "))
+        .expect("the README gives the build-and-run command");
+    let args: Vec<&str> = line
+        .trim()
+        .trim_start_matches("cargo run --release -- ")
+        .split_whitespace()
+        .collect();
+    let dir = workspace();
+    let o = run_in(dir.path(), &args);
+    let (out, err) = text(&o);
+    assert_eq!(o.status.code(), Some(0), "{out}\n{err}");
+    assert!(out.contains("verified on all"), "{out}");
+    let written = args[args.iter().position(|a| *a == "-o").unwrap() + 1];
+    let qasm = std::fs::read_to_string(dir.path().join(written)).unwrap();
+    assert!(qasm.starts_with("OPENQASM 2.0;\ninclude \"qelib1.inc\";\n"));
+    // And the file it wrote verifies against its spec with the second tool.
+    let o = run_in(dir.path(), &["verify", written, "--spec", args[1]]);
+    assert_eq!(o.status.code(), Some(0), "{:?}", text(&o));
+}
+
+#[test]
+fn ci_runs_the_readme_test_command() {
+    let readme = std::fs::read_to_string(repo().join("README.md")).unwrap();
+    let test_cmd = readme
+        .lines()
+        .map(str::trim)
+        .find(|l| l.starts_with("cargo test"))
+        .expect("the README gives the test command");
+    let ci = std::fs::read_to_string(repo().join(".ci/run")).unwrap();
+    assert!(
+        ci.lines().any(|l| l.trim() == test_cmd),
+        ".ci/run must run `{test_cmd}`"
+    );
+}
+
+#[test]
+fn every_demo_spec_synthesizes_and_verifies() {
+    let dir = workspace();
+    let mut count = 0;
+    for e in std::fs::read_dir(dir.path().join("specs")).unwrap() {
+        let p = e.unwrap().path();
+        let spec = p.to_str().unwrap();
+        let out = format!("{spec}.qasm");
+        let o = run_in(dir.path(), &["synth", spec, "-o", &out, "--json"]);
+        let (stdout, err) = text(&o);
+        assert_eq!(o.status.code(), Some(0), "{spec}: {err}");
+        let v: serde_json::Value = serde_json::from_str(&stdout).unwrap();
+        assert_eq!(v["verification"]["verdict"], "proven", "{spec}");
+        for field in [
+            "qubits",
+            "mct",
+            "toffoli",
+            "cnot",
+            "not",
+            "depth",
+            "toffoli_depth",
+            "t_count",
+        ] {
+            assert!(
+                v["cost"].get(field).is_some(),
+                "{spec}: cost.{field} missing"
+            );
+        }
+        assert_eq!(
+            v["cost"]["t_count"],
+            v["cost"]["toffoli"].as_u64().unwrap() * 7
+        );
+        let o = run_in(dir.path(), &["verify", &out, "--spec", spec]);
+        assert_eq!(o.status.code(), Some(0), "{spec}: {:?}", text(&o));
+        count += 1;
+    }
+    assert!(count >= 5, "at least five demo specs");
+}
+
+#[test]
+fn circuit_goes_to_stdout_without_output_file() {
+    let dir = workspace();
+    let o = run_in(dir.path(), &["synth", "specs/dice-shuffle.toml"]);
+    let (out, err) = text(&o);
+    assert_eq!(o.status.code(), Some(0));
+    assert!(out.starts_with("OPENQASM 2.0;"), "{out}");
+    assert!(out.contains("qreg x[3];"));
+    assert!(err.contains("verified on all 8 basis states"), "{err}");
+}
+
+#[test]
+fn tampered_circuit_is_refuted_with_exit_1() {
+    let dir = workspace();
+    let o = run_in(
+        dir.path(),
+        &["synth", "specs/greenhouse.toml", "-o", "g.qasm"],
+    );
+    assert_eq!(o.status.code(), Some(0));
+    let qasm = std::fs::read_to_string(dir.path().join("g.qasm")).unwrap();
+    // Drop the last gate.
+    let mut lines: Vec<&str> = qasm.lines().collect();
+    let last = lines
+        .iter()
+        .rposition(|l| l.starts_with("cx") || l.starts_with("ccx"))
+        .unwrap();
+    lines.remove(last);
+    std::fs::write(dir.path().join("bad.qasm"), lines.join("\n")).unwrap();
+    let o = run_in(
+        dir.path(),
+        &["verify", "bad.qasm", "--spec", "specs/greenhouse.toml"],
+    );
+    let (out, _) = text(&o);
+    assert_eq!(o.status.code(), Some(1), "{out}");
+    assert!(out.contains("refuted"), "{out}");
+    assert!(out.contains("expected") && out.contains("actual"), "{out}");
+    let o = run_in(
+        dir.path(),
+        &[
+            "verify",
+            "bad.qasm",
+            "--spec",
+            "specs/greenhouse.toml",
+            "--json",
+        ],
+    );
+    let v: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
+    assert_eq!(v["verdict"], "refuted");
+    assert!(v["counterexample"]["state"].is_u64());
+}
+
+#[test]
+fn cost_reads_a_qasm_file() {
+    let dir = tempfile::tempdir().unwrap();
+    let p = dir.path().join("c.qasm");
+    std::fs::write(
+        &p,
+        "OPENQASM 2.0;\ninclude \"qelib1.inc\";\nqreg q[3];\nccx q[0],q[1],q[2];\nccx q[0],q[2],q[1];\ncx q[0],q[1];\nx q[2];\n",
+    )
+    .unwrap();
+    let o = run_in(dir.path(), &["cost", "c.qasm", "--json"]);
+    let v: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
+    assert_eq!(v["toffoli"], 2);
+    assert_eq!(v["cnot"], 1);
+    assert_eq!(v["not"], 1);
+    assert_eq!(v["qubits"], 3);
+    assert_eq!(v["t_count"], 14);
+    // Both Toffolis share lines: two Toffoli layers.
+    assert_eq!(v["toffoli_depth"], 2);
+}
+
+#[test]
+fn resource_limit_exits_3_and_names_the_flag_and_writes_nothing() {
+    let dir = workspace();
+    let o = run_in(
+        dir.path(),
+        &[
+            "synth",
+            "specs/greenhouse.toml",
+            "-o",
+            "g.qasm",
+            "--max-states",
+            "16",
+        ],
+    );
+    let (_, err) = text(&o);
+    assert_eq!(o.status.code(), Some(3), "{err}");
+    assert!(err.contains("--max-states"), "{err}");
+    assert!(!dir.path().join("g.qasm").exists());
+    let o = run_in(
+        dir.path(),
+        &["synth", "specs/seating.toml", "--max-inputs", "4"],
+    );
+    assert_eq!(o.status.code(), Some(3));
+    assert!(text(&o).1.contains("--max-inputs"));
+}
+
+#[test]
+fn the_spec_is_never_overwritten() {
+    let dir = workspace();
+    let before = std::fs::read(dir.path().join("specs/greenhouse.toml")).unwrap();
+    let o = run_in(
+        dir.path(),
+        &[
+            "synth",
+            "specs/greenhouse.toml",
+            "-o",
+            "specs/greenhouse.toml",
+        ],
+    );
+    assert_eq!(o.status.code(), Some(2));
+    assert_eq!(
+        std::fs::read(dir.path().join("specs/greenhouse.toml")).unwrap(),
+        before
+    );
+    let o = run_in(
+        dir.path(),
+        &[
+            "synth",
+            "specs/greenhouse.toml",
+            "-o",
+            "no/such/folder/g.qasm",
+        ],
+    );
+    assert_eq!(o.status.code(), Some(2));
+    assert!(text(&o).1.contains("cannot write"), "{:?}", text(&o));
+    // No temporary files are left behind.
+    let left: Vec<_> = std::fs::read_dir(dir.path())
+        .unwrap()
+        .map(|e| e.unwrap().file_name())
+        .collect();
+    assert!(
+        left.iter().all(|n| !n.to_string_lossy().contains(".tmp-")),
+        "{left:?}"
+    );
+}
+
+#[test]
+fn usage_errors_exit_2() {
+    let dir = workspace();
+    let o = run_in(
+        dir.path(),
+        &["synth", "specs/greenhouse.toml", "--method", "magic"],
+    );
+    assert_eq!(o.status.code(), Some(2));
+    assert!(text(&o).1.contains("reed-muller"));
+    let o = run_in(
+        dir.path(),
+        &["synth", "specs/greenhouse.toml", "--method", "transform"],
+    );
+    assert_eq!(o.status.code(), Some(2));
+    let o = run_in(dir.path(), &["synth", "specs/missing.toml"]);
+    assert_eq!(o.status.code(), Some(2));
+    assert!(text(&o).1.contains("specs/missing.toml"));
+    let o = run_in(dir.path(), &["frobnicate"]);
+    assert_eq!(o.status.code(), Some(2));
+    let o = run_in(dir.path(), &["--version"]);
+    assert_eq!(o.status.code(), Some(0));
+}
+
+/// Writes `spec` to a file, runs `synth` on it and returns (line, column, message).
+fn bad_spec(spec: &str) -> (usize, usize, String) {
+    let dir = tempfile::tempdir().unwrap();
+    std::fs::write(dir.path().join("bad.toml"), spec).unwrap();
+    let o = run_in(dir.path(), &["synth", "bad.toml", "-o", "out.qasm"]);
+    let (_, err) = text(&o);
+    assert_eq!(o.status.code(), Some(2), "{err}");
+    assert!(!dir.path().join("out.qasm").exists());
+    let first = err.lines().next().unwrap();
+    let rest = first
+        .strip_prefix("error: bad.toml:")
+        .unwrap_or_else(|| panic!("{err}"));
+    let mut parts = rest.splitn(3, ':');
+    let line = parts.next().unwrap().parse().unwrap();
+    let col = parts.next().unwrap().parse().unwrap();
+    assert!(err.contains('^'), "a caret marks the column: {err}");
+    (line, col, err)
+}
+
+#[test]
+fn unknown_key() {
+    let (l, c, e) = bad_spec("kind = \"function\"\ncolour = \"red\"\n");
+    assert_eq!((l, c), (2, 1), "{e}");
+    assert!(e.contains("colour"), "{e}");
+}
+
+#[test]
+fn output_given_twice() {
+    let (l, c, e) = bad_spec(
+        "kind = \"function\"\ninputs = [\"a\", \"b\"]\noutputs = [\"f\"]\n[table]\nf = \"0x8\"\n[expr]\nf = \"a & b\"\n",
+    );
+    assert_eq!((l, c), (7, 1), "{e}");
+    assert!(e.contains("given twice"), "{e}");
+}
+
+#[test]
+fn output_not_given() {
+    let (l, c, e) = bad_spec(
+        "kind = \"function\"\ninputs = [\"a\", \"b\"]\noutputs = [\"f\", \"g\"]\n[table]\nf = \"0x8\"\n",
+    );
+    assert_eq!((l, c), (3, 17), "{e}");
+    assert!(e.contains("'g'"), "{e}");
+}
+
+#[test]
+fn output_not_declared() {
+    let (l, c, e) = bad_spec(
+        "kind = \"function\"\ninputs = [\"a\"]\noutputs = [\"f\"]\n[expr]\nf = \"a\"\nh = \"!a\"\n",
+    );
+    assert_eq!((l, c), (6, 1), "{e}");
+}
+
+#[test]
+fn table_of_the_wrong_length() {
+    let (l, c, e) = bad_spec(
+        "kind = \"function\"\ninputs = [\"a\", \"b\", \"c\"]\noutputs = [\"f\"]\n[table]\nf = \"0xe\"\n",
+    );
+    assert_eq!((l, c), (5, 6), "{e}");
+    assert!(e.contains("2 hex digits"), "{e}");
+}
+
+#[test]
+fn table_with_bits_past_the_end() {
+    let (l, c, e) = bad_spec(
+        "kind = \"function\"\ninputs = [\"a\"]\noutputs = [\"f\"]\n[table]\nf = \"0x6\"\n",
+    );
+    assert_eq!((l, c), (5, 8), "{e}");
+    assert!(e.contains("bit 2"), "{e}");
+}
+
+#[test]
+fn table_with_a_bad_digit() {
+    let (l, c, e) = bad_spec(
+        "kind = \"function\"\ninputs = [\"a\", \"b\", \"c\"]\noutputs = [\"f\"]\n[table]\nf = \"0xz8\"\n",
+    );
+    assert_eq!((l, c), (5, 8), "{e}");
+}
+
+#[test]
+fn unknown_identifier() {
+    let (l, c, e) = bad_spec(
+        "kind = \"function\"\ninputs = [\"hot\", \"cold\"]\noutputs = [\"f\"]\n[expr]\nf = \"hot & !warm\"\n",
+    );
+    assert_eq!((l, c), (5, 13), "{e}");
+    assert!(e.contains("warm"), "{e}");
+}
+
+#[test]
+fn expression_syntax_error() {
+    let (l, c, e) = bad_spec(
+        "kind = \"function\"\ninputs = [\"a\", \"b\"]\noutputs = [\"f\"]\n[expr]\nf = \"(a & b | \"\n",
+    );
+    // The term after '|' is missing: the caret sits at the end of the expression.
+    assert_eq!((l, c), (5, 15), "{e}");
+}
+
+#[test]
+fn duplicate_names() {
+    let (l, c, e) =
+        bad_spec("kind = \"function\"\ninputs = [\"a\", \"b\", \"a\"]\noutputs = [\"f\"]\n");
+    assert_eq!((l, c), (2, 21), "{e}");
+    let (l, c, e) = bad_spec("kind = \"function\"\ninputs = [\"a\"]\noutputs = [\"a\"]\n");
+    assert_eq!((l, c), (3, 12), "{e}");
+    assert!(e.contains("twice"), "{e}");
+}
+
+#[test]
+fn images_not_a_bijection() {
+    let (l, c, e) = bad_spec("kind = \"permutation\"\nwidth = 2\nimages = [3, 1, 2, 1]\n");
+    assert_eq!((l, c), (3, 20), "{e}");
+    assert!(e.contains("bijection"), "{e}");
+    let (l, c, _) = bad_spec("kind = \"permutation\"\nwidth = 2\nimages = [3, 1, 2, 4]\n");
+    assert_eq!((l, c), (3, 20));
+}
+
+#[test]
+fn images_of_the_wrong_count() {
+    let (l, c, e) = bad_spec("kind = \"permutation\"\nwidth = 2\nimages = [0, 1, 2]\n");
+    assert_eq!((l, c), (3, 10), "{e}");
+    assert!(e.contains("needs 4 images"), "{e}");
+}
+
+#[test]
+fn toml_syntax_and_type_errors() {
+    let (l, _, _) = bad_spec("kind = \"function\"\ninputs = [\"a\"\n");
+    assert!(l >= 2);
+    let (l, c, _) = bad_spec("kind = \"permutation\"\nwidth = \"two\"\nimages = [1, 0]\n");
+    assert_eq!((l, c), (2, 9));
+    let (l, c, e) = bad_spec("kind = \"funktion\"\n");
+    assert_eq!((l, c), (1, 8), "{e}");
+    assert!(e.contains("hint"), "{e}");
+}
+
+#[test]
+fn qasm_errors_have_locations() {
+    let dir = workspace();
+    std::fs::write(
+        dir.path().join("c.qasm"),
+        "OPENQASM 2.0;\ninclude \"qelib1.inc\";\nqreg x[3];\nqreg y[2];\n  h x[0];\n",
+    )
+    .unwrap();
+    let o = run_in(
+        dir.path(),
+        &["verify", "c.qasm", "--spec", "specs/greenhouse.toml"],
+    );
+    let (_, err) = text(&o);
+    assert_eq!(o.status.code(), Some(2));
+    assert!(err.contains("c.qasm:5:3"), "{err}");
+}

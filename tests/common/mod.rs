@@ -1,0 +1,203 @@
+//! Shared proptest generators and test-side reference models (independent of the library's).
+#![allow(dead_code)]
+
+use proptest::prelude::*;
+
+/// A test-side expression: rendered to text for the spec, evaluated on its own.
+#[derive(Clone, Debug)]
+pub enum TExpr {
+    Var(usize),
+    Const(bool),
+    Not(Box<TExpr>, bool),
+    Bin(char, Box<TExpr>, Box<TExpr>),
+}
+
+impl TExpr {
+    pub fn render(&self, names: &[String]) -> String {
+        match self {
+            TExpr::Var(j) => names[*j].clone(),
+            TExpr::Const(b) => (*b as u8).to_string(),
+            TExpr::Not(e, tilde) => {
+                format!("{}{}", if *tilde { "~" } else { "!" }, e.render_atom(names))
+            }
+            TExpr::Bin(op, a, b) => format!("({} {op} {})", a.render(names), b.render(names)),
+        }
+    }
+
+    fn render_atom(&self, names: &[String]) -> String {
+        match self {
+            TExpr::Bin(..) => self.render(names),
+            TExpr::Not(..) => format!("({})", self.render(names)),
+            _ => self.render(names),
+        }
+    }
+
+    pub fn eval(&self, x: u64) -> bool {
+        match self {
+            TExpr::Var(j) => (x >> j) & 1 == 1,
+            TExpr::Const(b) => *b,
+            TExpr::Not(e, _) => !e.eval(x),
+            TExpr::Bin('&', a, b) => a.eval(x) && b.eval(x),
+            TExpr::Bin('|', a, b) => a.eval(x) || b.eval(x),
+            TExpr::Bin(_, a, b) => a.eval(x) ^ b.eval(x),
+        }
+    }
+}
+
+pub fn arb_expr(vars: usize) -> impl Strategy<Value = TExpr> {
+    let leaf = prop_oneof![
+        6 => (0..vars).prop_map(TExpr::Var),
+        1 => any::<bool>().prop_map(TExpr::Const),
+    ];
+    leaf.prop_recursive(5, 24, 2, |inner| {
+        prop_oneof![
+            (inner.clone(), any::<bool>()).prop_map(|(e, t)| TExpr::Not(Box::new(e), t)),
+            (
+                prop::sample::select(vec!['&', '|', '^']),
+                inner.clone(),
+                inner
+            )
+                .prop_map(|(op, a, b)| TExpr::Bin(op, Box::new(a), Box::new(b))),
+        ]
+    })
+}
+
+#[derive(Clone, Debug)]
+pub enum TOutput {
+    Table(Vec<bool>),
+    Expr(TExpr),
+}
+
+/// A random multi-output function, written as a spec by [`TFunction::to_toml`].
+#[derive(Clone, Debug)]
+pub struct TFunction {
+    pub inputs: usize,
+    pub outputs: Vec<TOutput>,
+}
+
+pub fn input_names(n: usize) -> Vec<String> {
+    (0..n).map(|i| format!("in{i}")).collect()
+}
+
+/// The spec's table string: bit i of the integer is f(i), most significant digit first.
+pub fn hex_table(bits: &[bool]) -> String {
+    let digits = (bits.len() / 4).max(1);
+    let mut s = String::from("0x");
+    for k in (0..digits).rev() {
+        let v = (0..4).fold(0u32, |v, b| {
+            v | (bits.get(4 * k + b).copied().unwrap_or(false) as u32) << b
+        });
+        s.push(char::from_digit(v, 16).unwrap());
+    }
+    s
+}
+
+impl TFunction {
+    pub fn eval(&self, x: u64) -> Vec<bool> {
+        self.outputs
+            .iter()
+            .map(|o| match o {
+                TOutput::Table(bits) => bits[x as usize],
+                TOutput::Expr(e) => e.eval(x),
+            })
+            .collect()
+    }
+
+    pub fn to_toml(&self) -> String {
+        let names = input_names(self.inputs);
+        let quoted: Vec<String> = names.iter().map(|n| format!("\"{n}\"")).collect();
+        let outs: Vec<String> = (0..self.outputs.len())
+            .map(|j| format!("\"out{j}\""))
+            .collect();
+        let mut s = format!(
+            "kind = \"function\"\nname = \"random\"\ninputs = [{}]\noutputs = [{}]\n",
+            quoted.join(", "),
+            outs.join(", ")
+        );
+        s.push_str("[table]\n");
+        for (j, o) in self.outputs.iter().enumerate() {
+            if let TOutput::Table(bits) = o {
+                s.push_str(&format!("out{j} = \"{}\"\n", hex_table(bits)));
+            }
+        }
+        s.push_str("[expr]\n");
+        for (j, o) in self.outputs.iter().enumerate() {
+            if let TOutput::Expr(e) = o {
+                s.push_str(&format!("out{j} = \"{}\"\n", e.render(&names)));
+            }
+        }
+        s
+    }
+}
+
+pub fn arb_function(max_inputs: usize, max_outputs: usize) -> impl Strategy<Value = TFunction> {
+    (1..=max_inputs, 1..=max_outputs).prop_flat_map(|(n, m)| {
+        let out = prop_oneof![
+            prop::collection::vec(any::<bool>(), 1 << n).prop_map(TOutput::Table),
+            arb_expr(n).prop_map(TOutput::Expr),
+        ];
+        prop::collection::vec(out, m).prop_map(move |outputs| TFunction { inputs: n, outputs })
+    })
+}
+
+/// A random permutation of `0..2^w` for `w` in `1..=max_width`.
+pub fn arb_permutation(max_width: usize) -> impl Strategy<Value = (usize, Vec<u64>)> {
+    (1..=max_width).prop_flat_map(|w| {
+        Just((0..1u64 << w).collect::<Vec<u64>>())
+            .prop_shuffle()
+            .prop_map(move |images| (w, images))
+    })
+}
+
+pub fn permutation_toml(width: usize, images: &[u64]) -> String {
+    let list: Vec<String> = images.iter().map(|v| v.to_string()).collect();
+    format!(
+        "kind = \"permutation\"\nwidth = {width}\nimages = [{}]\n",
+        list.join(", ")
+    )
+}
+
+/// Simulates an OpenQASM 2 text with the `qasmsim` crate (an outside simulator)
+/// on one basis state: `set` lists the qubits (register, index) to flip from
+/// |0>, and the result maps each register to its measured value.
+pub fn qasmsim_run(qasm: &str, set: &[(String, usize)]) -> std::collections::HashMap<String, u64> {
+    let mut header = String::new();
+    let mut body = String::new();
+    let mut regs = Vec::new();
+    for line in qasm.lines() {
+        if let Some(rest) = line.strip_prefix("qreg ") {
+            let name = rest.split('[').next().unwrap().to_string();
+            let size: usize = rest
+                .split('[')
+                .nth(1)
+                .unwrap()
+                .trim_end_matches("];")
+                .parse()
+                .unwrap();
+            regs.push((name, size));
+            header.push_str(line);
+            header.push('\n');
+        } else if regs.is_empty() {
+            header.push_str(line);
+            header.push('\n');
+        } else {
+            body.push_str(line);
+            body.push('\n');
+        }
+    }
+    let mut src = header;
+    for (name, size) in &regs {
+        src.push_str(&format!("creg c_{name}[{size}];\n"));
+    }
+    for (name, i) in set {
+        src.push_str(&format!("x {name}[{i}];\n"));
+    }
+    src.push_str(&body);
+    for (name, _) in &regs {
+        src.push_str(&format!("measure {name} -> c_{name};\n"));
+    }
+    let run = qasmsim::run(&src, Some(1)).expect("qasmsim runs the file");
+    regs.iter()
+        .map(|(name, _)| (name.clone(), run.memory()[&format!("c_{name}")]))
+        .collect()
+}

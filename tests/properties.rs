@@ -1,0 +1,150 @@
+//! Property tests: random specs go through synthesis, lowering and the verifier;
+//! exported OpenQASM agrees with an outside simulator; mutants are refuted.
+
+mod common;
+
+use common::*;
+use oraculum::{
+    build, parse_spec, verify, BuildOptions, Circuit, Method, Verdict, Verification, VerifyOptions,
+};
+use proptest::prelude::*;
+
+fn built(toml: &str) -> oraculum::Outcome {
+    let spec = parse_spec("random.toml", toml).expect("generated specs are valid");
+    build(
+        &spec,
+        &BuildOptions {
+            verify: Some(VerifyOptions::default()),
+            ..Default::default()
+        },
+    )
+    .expect("build runs")
+}
+
+/// Runs a lowered function circuit on input `x` (targets and ancillae at 0), reading `y`.
+fn run_function(c: &Circuit, n: usize, m: usize, x: u64) -> (u64, u64) {
+    let out = c.simulate(x);
+    let y = (out >> n) & ((1 << m) - 1);
+    let rest = out >> (n + m);
+    (y, rest)
+}
+
+proptest! {
+    #![proptest_config(ProptestConfig { cases: 96, ..ProptestConfig::default() })]
+
+    #[test]
+    fn random_functions_are_proven(f in arb_function(10, 4)) {
+        let out = built(&f.to_toml());
+        prop_assert!(out.verification.is_proven(), "{:?}", out.verification);
+        prop_assert!(out.lowered.gates().iter().all(|g| g.controls().len() <= 2));
+        // A direct check beside the verifier: a test-side model on every input.
+        let (n, m) = (f.inputs, f.outputs.len());
+        for x in 0..1u64 << n {
+            let (y, rest) = run_function(&out.lowered, n, m, x);
+            let want = f.eval(x).iter().enumerate().fold(0, |a, (j, &b)| a | (b as u64) << j);
+            prop_assert_eq!(y, want, "input {}", x);
+            prop_assert_eq!(rest, 0, "ancillae dirty on input {}", x);
+        }
+    }
+
+    #[test]
+    fn random_permutations_are_proven((w, images) in arb_permutation(6)) {
+        let out = built(&permutation_toml(w, &images));
+        prop_assert!(out.verification.is_proven(), "{:?}", out.verification);
+        for (i, &img) in images.iter().enumerate() {
+            prop_assert_eq!(out.lowered.simulate(i as u64), img);
+        }
+    }
+
+    /// Every single-gate drop or control flip that changes the function is refuted,
+    /// and every one that does not is proven.
+    #[test]
+    fn mutants_are_caught(f in arb_function(4, 2), pick in any::<prop::sample::Index>()) {
+        let spec = parse_spec("m.toml", &f.to_toml()).unwrap();
+        let out = built(&f.to_toml());
+        let c = &out.lowered;
+        let bits = f.inputs + f.outputs.len();
+        let mut mutants = Vec::new();
+        for k in 0..c.gates().len() {
+            let mut gates = c.gates().to_vec();
+            gates.remove(k);
+            mutants.push(gates);
+            for j in 0..c.gates()[k].controls().len() {
+                let mut gates = c.gates().to_vec();
+                gates[k] = gates[k].with_flipped_control(j);
+                mutants.push(gates);
+            }
+        }
+        // All of them for small circuits; a sampled slice for large ones.
+        let start = if mutants.len() > 64 { pick.index(mutants.len() - 64) } else { 0 };
+        for gates in mutants.into_iter().skip(start).take(64) {
+            let mut m = c.clone();
+            m.set_gates(gates);
+            let changed = (0..1u64 << bits).any(|s| m.simulate(s) != c.simulate(s));
+            let verdict = verify(&m, &spec, &VerifyOptions::default()).unwrap();
+            match verdict {
+                Verdict::Refuted { counterexample } => {
+                    prop_assert!(changed, "an equivalent mutant was refuted");
+                    let s = counterexample.state;
+                    prop_assert_ne!(m.simulate(s), c.simulate(s), "the counterexample is not one");
+                }
+                Verdict::Proven { .. } => prop_assert!(!changed, "a wrong mutant was proven"),
+            }
+        }
+    }
+}
+
+proptest! {
+    #![proptest_config(ProptestConfig { cases: 24, ..ProptestConfig::default() })]
+
+    /// The exported OpenQASM 2, run by the `qasmsim` crate, gives the spec's outputs.
+    #[test]
+    fn qasm_agrees_with_an_outside_simulator(f in arb_function(5, 3), seeds in prop::collection::vec(any::<u64>(), 4)) {
+        let out = built(&f.to_toml());
+        prop_assume!(out.lowered.width() <= 14);
+        let qasm = out.qasm().unwrap();
+        let (n, m) = (f.inputs, f.outputs.len());
+        for seed in seeds {
+            let x = seed % (1 << n);
+            let y0 = (seed >> 32) % (1 << m);
+            let mut set: Vec<(String, usize)> = (0..n).filter(|i| (x >> i) & 1 == 1).map(|i| ("x".to_string(), i)).collect();
+            set.extend((0..m).filter(|j| (y0 >> j) & 1 == 1).map(|j| ("y".to_string(), j)));
+            let got = qasmsim_run(&qasm, &set);
+            let want = f.eval(x).iter().enumerate().fold(y0, |a, (j, &b)| a ^ (b as u64) << j);
+            prop_assert_eq!(got["x"], x);
+            prop_assert_eq!(got["y"], want);
+            if let Some(a) = got.get("anc") { prop_assert_eq!(*a, 0); }
+        }
+    }
+
+    #[test]
+    fn permutation_qasm_agrees_with_an_outside_simulator((w, images) in arb_permutation(4), pick in 0usize..16) {
+        let out = built(&permutation_toml(w, &images));
+        let qasm = out.qasm().unwrap();
+        let i = pick % images.len();
+        let set: Vec<(String, usize)> = (0..w).filter(|b| (i >> b) & 1 == 1).map(|b| ("x".to_string(), b)).collect();
+        let got = qasmsim_run(&qasm, &set);
+        prop_assert_eq!(got["x"], images[i]);
+        if let Some(a) = got.get("anc") { prop_assert_eq!(*a, 0); }
+    }
+}
+
+#[test]
+fn skipped_verification_is_reported_as_skipped() {
+    let spec = parse_spec(
+        "s.toml",
+        "kind = \"permutation\"\nwidth = 1\nimages = [1, 0]\n",
+    )
+    .unwrap();
+    let out = build(
+        &spec,
+        &BuildOptions {
+            method: Method::Auto,
+            verify: None,
+            ..Default::default()
+        },
+    )
+    .unwrap();
+    assert!(matches!(out.verification, Verification::Skipped { .. }));
+    assert!(!out.verification.is_proven());
+}
