@@ -74,7 +74,7 @@ fn main() {
         let t = Instant::now();
         let v = verify(&lowered, &spec, &VerifyOptions::default()).unwrap();
         best = best.min(t.elapsed().as_secs_f64());
-        if let oraculum::Verdict::Proven { states: s } = v {
+        if let oraculum::Verdict::Proven { states: s, .. } = v {
             states = s;
         } else {
             panic!("the benchmark circuit must verify");

@@ -48,8 +48,9 @@ pub use spec::{
     Source, Spec, SpecBody, MAX_ARITH_WIDTH,
 };
 pub use synth::{
-    function_lines, permutation_lines, reed_muller, reed_muller_coefficients, resolve, synthesize,
-    transform, Method, SynthError, SynthLimits,
+    arith_lines, arithmetic, function_lines, permutation_lines, reed_muller,
+    reed_muller_coefficients, resolve, synthesize, transform, Method, Registers, SynthError,
+    SynthLimits,
 };
 pub use verify::{
     verify, verify_with_progress, Counterexample, RegisterValue, Verdict, VerifyError,

@@ -340,9 +340,7 @@ fn synth(
         return Ok(code::DONE);
     }
     let verdict = match &out.verification {
-        oraculum::Verification::Ran(Verdict::Proven { states }) => {
-            format!("verified on all {states} basis states")
-        }
+        oraculum::Verification::Ran(v) => v.summary(),
         _ => "NOT verified (--no-verify)".to_string(),
     };
     let summary = format!("{label}: method {}, {verdict}\n{}\n", out.method, out.cost);
@@ -384,9 +382,10 @@ fn verify_file(circuit: &Path, spec: &Path, json: bool, max_states: u64) -> Resu
         println!("{}", serde_json::to_string_pretty(&v).unwrap_or_default());
     } else {
         match &verdict {
-            Verdict::Proven { states } => println!(
-                "{}: verified against {} on all {states} basis states",
+            Verdict::Proven { .. } => println!(
+                "{}: {} against {}",
                 circuit.display(),
+                verdict.summary(),
                 spec.display()
             ),
             Verdict::Refuted { counterexample } => println!(

@@ -153,13 +153,33 @@ struct RawSpec {
     width: Option<Spanned<i64>>,
     images: Option<Spanned<Vec<Spanned<i64>>>>,
     op: Option<Spanned<String>>,
-    constant: Option<Spanned<i64>>,
-    modulus: Option<Spanned<i64>>,
+    constant: Option<Spanned<Number>>,
+    modulus: Option<Spanned<Number>>,
     carry_out: Option<Spanned<bool>>,
     controlled: Option<Spanned<bool>>,
     data: Option<Spanned<Vec<Spanned<i64>>>>,
     data_width: Option<Spanned<i64>>,
     oracle: Option<Spanned<RawOracle>>,
+}
+
+/// A whole number written as a TOML integer or, past the range of TOML
+/// integers, as a string in decimal, `0x` hex or `0b` binary.
+#[derive(Deserialize)]
+#[serde(untagged)]
+enum Number {
+    Int(i64),
+    Text(String),
+}
+
+fn parse_number(text: &str) -> Option<u64> {
+    let t: String = text.trim().chars().filter(|&c| c != '_').collect();
+    if let Some(h) = t.strip_prefix("0x").or_else(|| t.strip_prefix("0X")) {
+        u64::from_str_radix(h, 16).ok()
+    } else if let Some(b) = t.strip_prefix("0b").or_else(|| t.strip_prefix("0B")) {
+        u64::from_str_radix(b, 2).ok()
+    } else {
+        t.parse().ok()
+    }
 }
 
 #[derive(Deserialize)]
@@ -368,6 +388,19 @@ impl Validator<'_> {
         Ok(FunctionSpec { inputs, outputs })
     }
 
+    fn number(&self, v: &Spanned<Number>, key: &str) -> Result<u64, LocatedError> {
+        match v.get_ref() {
+            Number::Int(i) => u64::try_from(*i)
+                .map_err(|_| self.err(&v.span(), format!("'{key}' must be 0 or more"))),
+            Number::Text(t) => parse_number(t).ok_or_else(|| {
+                self.err(
+                    &v.span(),
+                    format!("'{key}' must be a whole number from 0 to 2^64 - 1 (decimal, 0x hex or 0b binary)"),
+                )
+            }),
+        }
+    }
+
     fn nonneg(&self, v: &Spanned<i64>, key: &str) -> Result<u64, LocatedError> {
         u64::try_from(*v.get_ref())
             .map_err(|_| self.err(&v.span(), format!("'{key}' must be 0 or more")))
@@ -448,7 +481,7 @@ impl Validator<'_> {
         }
         let modulus = match &raw.modulus {
             Some(m) => {
-                let v = self.nonneg(m, "modulus")?;
+                let v = self.number(m, "modulus")?;
                 if v < 2 {
                     return Err(self.err(&m.span(), "'modulus' must be at least 2"));
                 }
@@ -486,7 +519,7 @@ impl Validator<'_> {
         };
         let constant = match &raw.constant {
             Some(c) => {
-                let v = self.nonneg(c, "constant")?;
+                let v = self.number(c, "constant")?;
                 if width < 64 && v >> width != 0 {
                     return Err(self.err(
                         &c.span(),
@@ -602,6 +635,24 @@ fan = "hot & !night | humid ^ hot"
             let (hot, humid, night) = (i & 1 == 1, i & 2 == 2, i & 4 == 4);
             assert_eq!(fan.get(i), (hot && !night) || (humid ^ hot));
         }
+    }
+
+    #[test]
+    fn constants_past_the_toml_integer_range() {
+        let s = parse_spec(
+            "t.toml",
+            "kind = \"arithmetic\"\nop = \"add_const\"\nwidth = 64\nconstant = \"0xffff_ffff_ffff_fffe\"\n",
+        )
+        .unwrap();
+        let SpecBody::Arithmetic(a) = s.body else {
+            panic!("arithmetic")
+        };
+        assert_eq!(a.constant, Some(u64::MAX - 1));
+        let e =
+            err("kind = \"arithmetic\"\nop = \"add_const\"\nwidth = 8\nconstant = \"twelve\"\n");
+        assert_eq!(at(&e), (4, 12), "{e}");
+        let e = err("kind = \"arithmetic\"\nop = \"add_const\"\nwidth = 8\nconstant = 300\n");
+        assert!(e.message.contains("does not fit"), "{e}");
     }
 
     #[test]

@@ -1,8 +1,10 @@
 //! Synthesis methods, one file each, and the choice between them.
 
+mod arith;
 mod reed_muller;
 mod transform;
 
+pub use arith::{arith_lines, arithmetic, Registers};
 pub use reed_muller::{reed_muller, reed_muller_coefficients};
 pub use transform::transform;
 
@@ -20,11 +22,13 @@ pub enum Method {
     ReedMuller,
     /// Basic transformation-based synthesis (Miller, Maslov, Dueck 2003).
     Transform,
+    /// Structural generators for arithmetic specs.
+    Structural,
 }
 
 impl Method {
     /// Every method with its name and what it takes.
-    pub const ALL: [(Method, &'static str, &'static str); 3] = [
+    pub const ALL: [(Method, &'static str, &'static str); 4] = [
         (
             Method::Auto,
             "auto",
@@ -39,6 +43,11 @@ impl Method {
             Method::Transform,
             "transform",
             "permutations: transformation-based synthesis, output side",
+        ),
+        (
+            Method::Structural,
+            "structural",
+            "arithmetic: ripple-carry (MAJ/UMA) and carry-chain generators, any width",
         ),
     ];
 
@@ -144,7 +153,8 @@ pub fn permutation_lines(width: usize) -> Vec<LineInfo> {
 pub fn resolve(spec: &Spec, method: Method) -> Method {
     match (method, &spec.body) {
         (Method::Auto, SpecBody::Function(_)) => Method::ReedMuller,
-        (Method::Auto, _) => Method::Transform,
+        (Method::Auto, SpecBody::Permutation(_)) => Method::Transform,
+        (Method::Auto, SpecBody::Arithmetic(_)) => Method::Structural,
         (m, _) => m,
     }
 }
@@ -163,6 +173,11 @@ pub fn synthesize(
             check_gates(&c, limits)?;
             Ok(c)
         }
+        (SpecBody::Arithmetic(a), Method::Structural) => {
+            let c = arithmetic(a);
+            check_gates(&c, limits)?;
+            Ok(c)
+        }
         (SpecBody::Function(_), m) => Err(SynthError::NotApplicable {
             method: m.name(),
             kind: "function",
@@ -176,7 +191,7 @@ pub fn synthesize(
         (SpecBody::Arithmetic(_), m) => Err(SynthError::NotApplicable {
             method: m.name(),
             kind: "arithmetic",
-            hint: "arithmetic generators are not built yet",
+            hint: "use structural or auto",
         }),
     }
 }

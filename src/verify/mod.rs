@@ -14,7 +14,7 @@
 
 use crate::circuit::Circuit;
 use crate::logic::Expr;
-use crate::spec::{OutputDef, Spec, SpecBody};
+use crate::spec::{ArithOp, ArithSpec, OutputDef, Spec, SpecBody};
 use rayon::prelude::*;
 use serde::Serialize;
 use std::fmt;
@@ -117,8 +117,12 @@ impl fmt::Display for Counterexample {
 pub enum Verdict {
     /// Every basis state checked and correct.
     Proven {
-        /// How many basis states were simulated.
+        /// How many basis states were checked.
         states: u64,
+        /// Basis states outside the op's domain (inputs at or above the
+        /// modulus of `add_mod`), simulated but not checked.
+        #[serde(skip_serializing_if = "is_zero")]
+        outside_domain: u64,
     },
     /// A basis state where the circuit is wrong.
     Refuted {
@@ -127,11 +131,36 @@ pub enum Verdict {
     },
 }
 
+impl Verdict {
+    /// One line for people: how much was proven, or that it was refuted.
+    pub fn summary(&self) -> String {
+        match self {
+            Verdict::Proven {
+                states,
+                outside_domain: 0,
+            } => format!("verified on all {states} basis states"),
+            Verdict::Proven {
+                states,
+                outside_domain,
+            } => format!(
+                "verified on all {states} basis states of the domain ({outside_domain} outside it, where the op promises nothing)"
+            ),
+            Verdict::Refuted { counterexample } => {
+                format!("refuted on basis state {}", counterexample.state)
+            }
+        }
+    }
+}
+
+fn is_zero(v: &u64) -> bool {
+    *v == 0
+}
+
 /// Why a verification could not run.
 #[derive(Clone, Debug, PartialEq, Eq, thiserror::Error)]
 pub enum VerifyError {
     /// Too many basis states for the exhaustive check.
-    #[error("exhaustive verification needs 2^{bits} basis states, over the limit of {limit}; raise it with --max-states (nothing was verified)")]
+    #[error("exhaustive verification needs 2^{bits} basis states, over the limit of {limit}; raise it with --max-states, or write the circuit unproven with --no-verify (nothing was verified)")]
     TooLarge {
         /// Free lines, so `2^bits` states.
         bits: u32,
@@ -161,6 +190,79 @@ enum Model<'a> {
     Permutation {
         images: &'a [u64],
     },
+    Arithmetic {
+        spec: &'a ArithSpec,
+        /// (register, width) in state-bit order.
+        layout: Vec<(&'static str, usize)>,
+    },
+}
+
+/// The registers of an arithmetic op, in OpenQASM order, as the spec contract states them.
+fn arithmetic_layout(s: &ArithSpec) -> Vec<(&'static str, usize)> {
+    let w = s.width;
+    let mut l = Vec::new();
+    if s.controlled {
+        l.push(("ctrl", 1));
+    }
+    l.push(("a", w));
+    match s.op {
+        ArithOp::Add | ArithOp::Sub | ArithOp::AddMod | ArithOp::LessThan => l.push(("b", w)),
+        _ => {}
+    }
+    match s.op {
+        ArithOp::LessThan | ArithOp::LessThanConst | ArithOp::EqualConst => l.push(("y", 1)),
+        ArithOp::Lookup => l.push(("y", s.data_width)),
+        ArithOp::Add if s.carry_out => l.push(("cout", 1)),
+        _ => {}
+    }
+    l
+}
+
+/// The op on register values: `None` when the input is outside the op's domain.
+/// Values are in layout order; registers are at most 62 bits wide here.
+fn arithmetic_reference(s: &ArithSpec, v: &[u64]) -> Option<Vec<u64>> {
+    let mut out = v.to_vec();
+    let (ctrl, base) = if s.controlled {
+        (v[0] == 1, 1)
+    } else {
+        (true, 0)
+    };
+    let w = s.width as u32;
+    let mask = |x: u128| (x & ((1u128 << w) - 1)) as u64;
+    let k = s.constant.unwrap_or(0) as u128;
+    let n = s.modulus.unwrap_or(1) as u128;
+    let a = v[base] as u128;
+    if s.op == ArithOp::AddMod && (a >= n || v[base + 1] as u128 >= n) {
+        return None;
+    }
+    if !ctrl {
+        return Some(out);
+    }
+    match s.op {
+        ArithOp::Add => {
+            let b = v[base + 1] as u128;
+            out[base + 1] = mask(a + b);
+            if s.carry_out {
+                out[base + 2] ^= ((a + b) >> w) as u64;
+            }
+        }
+        ArithOp::Sub => {
+            let b = v[base + 1] as u128;
+            out[base + 1] = mask(b + (1u128 << w) - a);
+        }
+        ArithOp::AddConst => out[base] = mask(a + k),
+        ArithOp::LessThan => out[base + 2] ^= (a < v[base + 1] as u128) as u64,
+        ArithOp::LessThanConst => out[base + 1] ^= (a < k) as u64,
+        ArithOp::EqualConst => out[base + 1] ^= (a == k) as u64,
+        ArithOp::IncrementMod => {
+            if a < n {
+                out[base] = ((a + 1) % n) as u64;
+            }
+        }
+        ArithOp::AddMod => out[base + 1] = ((a + v[base + 1] as u128) % n) as u64,
+        ArithOp::Lookup => out[base + 1] ^= s.data[a as usize],
+    }
+    Some(out)
 }
 
 /// Gate in the verifier's own form: controls as (line, fire-on-1) pairs.
@@ -255,7 +357,13 @@ pub fn verify_with_progress(
             bind(circuit, &[("x", p.width())])?,
             Model::Permutation { images: p.images() },
         ),
-        SpecBody::Arithmetic(_) => return Err(VerifyError::Unsupported("arithmetic")),
+        SpecBody::Arithmetic(a) => {
+            let layout = arithmetic_layout(a);
+            (
+                bind(circuit, &layout)?,
+                Model::Arithmetic { spec: a, layout },
+            )
+        }
     };
     let bits = binding.free.len() as u32;
     if bits >= 63 || (1u64 << bits) > opts.max_states {
@@ -287,14 +395,21 @@ pub fn verify_with_progress(
     let words = states.div_ceil(64);
     let blocks = words.div_ceil(BLOCK_WORDS as u64);
     let done = AtomicU64::new(0);
+    let checked = AtomicU64::new(0);
     let failure = (0..blocks).into_par_iter().find_map_first(|b| {
-        let r = checker.block(b * BLOCK_WORDS as u64);
+        let r = checker.block(b * BLOCK_WORDS as u64, &checked);
         let d = done.fetch_add(64 * BLOCK_WORDS as u64, Ordering::Relaxed);
         progress((d + 64 * BLOCK_WORDS as u64).min(states), states);
         r
     });
     Ok(match failure {
-        None => Verdict::Proven { states },
+        None => {
+            let checked = checked.into_inner();
+            Verdict::Proven {
+                states: checked,
+                outside_domain: states - checked,
+            }
+        }
         Some(state) => Verdict::Refuted {
             counterexample: Box::new(checker.explain(state)),
         },
@@ -356,7 +471,7 @@ fn eval(e: &Expr, x: &dyn Fn(usize) -> u64) -> u64 {
 
 impl Checker<'_> {
     /// Simulates one block starting at word `first`; returns the first failing state.
-    fn block(&self, first: u64) -> Option<u64> {
+    fn block(&self, first: u64, checked: &AtomicU64) -> Option<u64> {
         let total_words = self.states.div_ceil(64);
         let n_words = (total_words - first).min(BLOCK_WORDS as u64) as usize;
         let mut st = vec![0u64; self.width * BLOCK_WORDS];
@@ -392,11 +507,12 @@ impl Checker<'_> {
             for &a in &self.binding.ancillae {
                 bad |= at(a);
             }
-            self.expected_words(word, &mut expected);
+            let care = self.expected_words(word, &mut expected);
             for (&line, e) in self.binding.free.iter().zip(&expected) {
                 bad |= at(line) ^ e;
             }
-            bad &= valid;
+            bad &= valid & care;
+            checked.fetch_add((valid & care).count_ones() as u64, Ordering::Relaxed);
             if bad != 0 {
                 return Some(word * 64 + bad.trailing_zeros() as u64);
             }
@@ -404,10 +520,12 @@ impl Checker<'_> {
         None
     }
 
-    /// Expected value of every free line, for the 64 states of word `w`, into `out`.
-    fn expected_words(&self, w: u64, out: &mut Vec<u64>) {
+    /// Expected value of every free line, for the 64 states of word `w`, into
+    /// `out`; returns the mask of states inside the op's domain.
+    fn expected_words(&self, w: u64, out: &mut Vec<u64>) -> u64 {
         let nfree = self.binding.free.len();
         out.clear();
+        let mut care = !0u64;
         match &self.model {
             Model::Function { inputs, outputs } => {
                 let n = *inputs;
@@ -439,7 +557,35 @@ impl Checker<'_> {
                     }
                 }
             }
+            Model::Arithmetic { spec, layout } => {
+                out.resize(nfree, 0);
+                let mut values = vec![0u64; layout.len()];
+                for k in 0..64u64 {
+                    let s = w * 64 + k;
+                    if s >= self.states {
+                        break;
+                    }
+                    let mut shift = 0;
+                    for (v, (_, width)) in values.iter_mut().zip(layout) {
+                        *v = (s >> shift) & ((1u64 << width) - 1);
+                        shift += width;
+                    }
+                    match arithmetic_reference(spec, &values) {
+                        None => care &= !(1u64 << k),
+                        Some(result) => {
+                            let mut bit = 0;
+                            for (v, (_, width)) in result.iter().zip(layout) {
+                                for j in 0..*width {
+                                    out[bit] |= ((v >> j) & 1) << k;
+                                    bit += 1;
+                                }
+                            }
+                        }
+                    }
+                }
+            }
         }
+        care
     }
 
     /// Re-simulates the failing `state` alone and describes it.

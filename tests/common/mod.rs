@@ -201,3 +201,40 @@ pub fn qasmsim_run(qasm: &str, set: &[(String, usize)]) -> std::collections::Has
         .map(|(name, _)| (name.clone(), run.memory()[&format!("c_{name}")]))
         .collect()
 }
+
+/// A plain per-state simulator for circuits of any width: sets registers from
+/// `inputs` (ancillae and unnamed registers at 0), runs every gate, and returns
+/// every register's value (registers up to 128 bits).
+pub fn run_registers(
+    c: &oraculum::Circuit,
+    inputs: &[(&str, u128)],
+) -> std::collections::HashMap<String, u128> {
+    let mut v = vec![false; c.width()];
+    for (i, l) in c.lines().iter().enumerate() {
+        if let Some((_, val)) = inputs.iter().find(|(n, _)| *n == l.register) {
+            v[i] = l.index < 128 && (val >> l.index) & 1 == 1;
+        }
+    }
+    for g in c.gates() {
+        if g.controls()
+            .iter()
+            .all(|ctl| v[ctl.line.index()] == ctl.positive)
+        {
+            let t = g.target().index();
+            v[t] = !v[t];
+        }
+    }
+    let mut out = std::collections::HashMap::new();
+    for (i, l) in c.lines().iter().enumerate() {
+        let e = out.entry(l.register.clone()).or_insert(0u128);
+        if v[i] && l.index < 128 {
+            *e |= 1u128 << l.index;
+        }
+    }
+    out
+}
+
+/// An arithmetic spec as TOML text.
+pub fn arith_toml(op: &str, width: usize, extra: &str) -> String {
+    format!("kind = \"arithmetic\"\nop = \"{op}\"\nwidth = {width}\n{extra}\n")
+}
