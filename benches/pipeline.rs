@@ -66,7 +66,11 @@ fn main() {
     let threads = rayon::current_num_threads();
 
     let spec = parse_spec("bench20", &spec_20(&mut rng)).unwrap();
-    let lowered = lower(&synthesize(&spec, Method::Auto, &SynthLimits::default()).unwrap());
+    let lowered = lower(
+        &synthesize(&spec, Method::ReedMuller, &SynthLimits::default())
+            .unwrap()
+            .circuit,
+    );
     let gates = lowered.gates().len() as f64;
     let mut best = f64::MAX;
     let mut states = 0;

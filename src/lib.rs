@@ -35,22 +35,24 @@ mod verify;
 pub use circuit::{Circuit, Control, Cost, Gate, Line, LineInfo, LineOutOfRange, Role};
 pub use export::{listing, read_qasm, write_qasm, QasmHeader, WriteError};
 pub use logic::{
-    parse_expr, Expr, ExprError, Permutation, PermutationError, TableError, TruthTable,
-    MAX_PERMUTATION_WIDTH, MAX_TABLE_VARS,
+    parse_expr, third, Cube, Esop, Expr, ExprError, Literal, Permutation, PermutationError,
+    TableError, TruthTable, MAX_PERMUTATION_WIDTH, MAX_TABLE_VARS,
 };
 pub use lower::{lower, ANCILLA_REGISTER};
 pub use opt::{cancel_pairs, CANCEL_WINDOW};
 pub use pipeline::{
-    build, build_with_progress, BuildError, BuildOptions, Outcome, Report, Timings, Verification,
+    build, build_one, build_with_progress, compare, BuildError, BuildOptions, Outcome, Report,
+    Timings, Verification,
 };
 pub use spec::{
     parse_spec, ArithOp, ArithSpec, FunctionSpec, LocatedError, Location, Output, OutputDef,
     Source, Spec, SpecBody, MAX_ARITH_WIDTH,
 };
 pub use synth::{
-    arith_lines, arithmetic, function_lines, permutation_lines, reed_muller,
-    reed_muller_coefficients, resolve, synthesize, transform, Method, Registers, SynthError,
-    SynthLimits,
+    arith_lines, arithmetic, candidates, esop_circuit, esop_of, exact_esop, exorlink_minimize,
+    function_lines, minimize_tables, permutation_lines, reed_muller, reed_muller_coefficients,
+    synthesize, transform, EsopTable, ExactEsop, Method, Registers, SynthError, SynthLimits,
+    Synthesis, EXACT_ESOP_MAX_INPUTS, EXORLINK_MAX_TERMS, EXORLINK_WORK,
 };
 pub use verify::{
     verify, verify_with_progress, Counterexample, RegisterValue, Verdict, VerifyError,

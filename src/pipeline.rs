@@ -3,7 +3,7 @@
 use crate::circuit::{Circuit, Cost};
 use crate::export::{write_qasm, QasmHeader, WriteError};
 use crate::lower::lower;
-use crate::synth::{resolve, synthesize, Method, SynthError, SynthLimits};
+use crate::synth::{candidates, synthesize, Method, SynthError, SynthLimits};
 use crate::verify::{verify_with_progress, Verdict, VerifyError, VerifyOptions};
 use crate::Spec;
 use serde::Serialize;
@@ -68,6 +68,8 @@ pub struct Outcome {
     pub verification: Verification,
     /// Time per stage.
     pub timings: Timings,
+    /// What the method or the choice of method wants the user to know.
+    pub notes: Vec<String>,
 }
 
 /// Why a build stopped before a verdict.
@@ -99,14 +101,87 @@ pub fn build(spec: &Spec, opts: &BuildOptions) -> Result<Outcome, BuildError> {
 
 /// [`build`] with a progress callback for verification (see
 /// [`crate::verify::verify_with_progress`]).
+///
+/// With [`Method::Auto`] every cheap method that applies is run and verified,
+/// and the verified circuit with the fewest Toffolis (then qubits, then gates)
+/// is returned; the notes say what was tried.
 pub fn build_with_progress(
     spec: &Spec,
     opts: &BuildOptions,
     progress: &(dyn Fn(u64, u64) + Sync),
 ) -> Result<Outcome, BuildError> {
-    let method = resolve(spec, opts.method);
+    if opts.method != Method::Auto {
+        return build_one(spec, opts.method, opts, progress);
+    }
+    let tried: Vec<(Method, Result<Outcome, BuildError>)> = candidates(spec, false)
+        .into_iter()
+        .map(|m| (m, build_one(spec, m, opts, progress)))
+        .collect();
+    pick_best(tried)
+}
+
+/// Runs every method that applies (the slow ones too), each verified when
+/// `opts.verify` asks for it; for `oraculum compare`.
+pub fn compare(spec: &Spec, opts: &BuildOptions) -> Vec<(Method, Result<Outcome, BuildError>)> {
+    candidates(spec, true)
+        .into_iter()
+        .map(|m| (m, build_one(spec, m, opts, &|_, _| {})))
+        .collect()
+}
+
+fn rank(o: &Outcome) -> (u8, usize, usize, usize) {
+    let verdict = match &o.verification {
+        Verification::Ran(Verdict::Proven { .. }) | Verification::Skipped { .. } => 0,
+        Verification::Ran(Verdict::Refuted { .. }) => 1,
+    };
+    (verdict, o.cost.toffoli, o.cost.qubits, o.cost.mct_total())
+}
+
+fn pick_best(tried: Vec<(Method, Result<Outcome, BuildError>)>) -> Result<Outcome, BuildError> {
+    let summary: Vec<String> = tried
+        .iter()
+        .map(|(m, r)| match r {
+            Ok(o) => format!("{m} ({} Toffoli)", o.cost.toffoli),
+            Err(e) => format!("{m} (no circuit: {e})"),
+        })
+        .collect();
+    let mut first_error = None;
+    let mut best: Option<Outcome> = None;
+    for (_, r) in tried {
+        match r {
+            Ok(o) => {
+                if best.as_ref().is_none_or(|b| rank(&o) < rank(b)) {
+                    best = Some(o);
+                }
+            }
+            Err(e) => {
+                first_error.get_or_insert(e);
+            }
+        }
+    }
+    match best {
+        Some(mut o) => {
+            o.notes.push(format!(
+                "auto: tried {}; picked {}",
+                summary.join(", "),
+                o.method
+            ));
+            Ok(o)
+        }
+        None => Err(first_error.expect("at least one method applies to every spec")),
+    }
+}
+
+/// Synthesizes with one method, lowers, measures, and verifies.
+pub fn build_one(
+    spec: &Spec,
+    method: Method,
+    opts: &BuildOptions,
+    progress: &(dyn Fn(u64, u64) + Sync),
+) -> Result<Outcome, BuildError> {
     let t0 = Instant::now();
-    let mct = synthesize(spec, method, &opts.limits)?;
+    let synthesis = synthesize(spec, method, &opts.limits)?;
+    let mct = synthesis.circuit;
     let t1 = Instant::now();
     let lowered = lower(&mct);
     let t2 = Instant::now();
@@ -128,6 +203,7 @@ pub fn build_with_progress(
             lower: (t2 - t1).as_secs_f64(),
             verify: (t3 - t2).as_secs_f64(),
         },
+        notes: synthesis.notes,
     })
 }
 
@@ -144,6 +220,8 @@ pub struct Report<'a> {
     pub verification: &'a Verification,
     /// Seconds per stage.
     pub seconds: Timings,
+    /// Statements about the result.
+    pub notes: &'a [String],
 }
 
 impl Outcome {
@@ -155,6 +233,7 @@ impl Outcome {
             cost: &self.cost,
             verification: &self.verification,
             seconds: self.timings,
+            notes: &self.notes,
         }
     }
 

@@ -426,3 +426,42 @@ fn qasm_errors_have_locations() {
     assert_eq!(o.status.code(), Some(2));
     assert!(err.contains("c.qasm:5:3"), "{err}");
 }
+
+#[test]
+fn compare_lists_every_method_and_marks_the_best() {
+    let dir = workspace();
+    let o = run_in(dir.path(), &["compare", "specs/greenhouse.toml", "--json"]);
+    assert_eq!(o.status.code(), Some(0), "{:?}", text(&o));
+    let v: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
+    let methods = v["methods"].as_array().unwrap();
+    let names: Vec<&str> = methods
+        .iter()
+        .map(|m| m["method"].as_str().unwrap())
+        .collect();
+    assert_eq!(names, ["reed-muller", "esop", "esop-exact"]);
+    for m in methods {
+        assert_eq!(m["verification"]["verdict"], "proven", "{m}");
+    }
+    let best = v["best"].as_str().unwrap();
+    let fewest = methods
+        .iter()
+        .map(|m| m["cost"]["toffoli"].as_u64().unwrap())
+        .min()
+        .unwrap();
+    let best_row = methods.iter().find(|m| m["method"] == best).unwrap();
+    assert_eq!(best_row["cost"]["toffoli"].as_u64().unwrap(), fewest);
+    // The same choice is what auto writes.
+    let o = run_in(
+        dir.path(),
+        &["synth", "specs/greenhouse.toml", "--json", "-o", "g.qasm"],
+    );
+    let auto: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
+    assert_eq!(auto["cost"]["toffoli"].as_u64().unwrap(), fewest);
+    assert!(auto["notes"][0]
+        .as_str()
+        .unwrap()
+        .starts_with("auto: tried"));
+    let o = run_in(dir.path(), &["compare", "specs/dice-shuffle.toml"]);
+    let (out, _) = text(&o);
+    assert!(out.contains("transform*"), "{out}");
+}

@@ -5,15 +5,22 @@ mod common;
 
 use common::*;
 use oraculum::{
-    build, parse_spec, verify, BuildOptions, Circuit, Method, Verdict, Verification, VerifyOptions,
+    build, esop_of, exact_esop, parse_spec, verify, BuildOptions, Circuit, Method, SpecBody,
+    SynthLimits, Verdict, Verification, VerifyOptions,
 };
 use proptest::prelude::*;
+use std::time::Duration;
 
 fn built(toml: &str) -> oraculum::Outcome {
+    built_with(toml, Method::Auto)
+}
+
+fn built_with(toml: &str, method: Method) -> oraculum::Outcome {
     let spec = parse_spec("random.toml", toml).expect("generated specs are valid");
     build(
         &spec,
         &BuildOptions {
+            method,
             verify: Some(VerifyOptions::default()),
             ..Default::default()
         },
@@ -45,6 +52,25 @@ proptest! {
             prop_assert_eq!(y, want, "input {}", x);
             prop_assert_eq!(rest, 0, "ancillae dirty on input {}", x);
         }
+    }
+
+    #[test]
+    fn every_function_method_is_proven(f in arb_function(10, 4)) {
+        let toml = f.to_toml();
+        for m in [Method::ReedMuller, Method::Esop] {
+            let out = built_with(&toml, m);
+            prop_assert!(out.verification.is_proven(), "{}: {:?}", m, out.verification);
+        }
+        // The table route of esop-exact is instant; the SAT route has its own test.
+        if f.inputs <= 4 && f.outputs.len() == 1 {
+            let exact = built_with(&toml, Method::EsopExact);
+            prop_assert!(exact.verification.is_proven());
+            prop_assert!(exact.cost.mct_total() <= built_with(&toml, Method::Esop).cost.mct_total());
+        }
+        // auto is never worse than any single method it tries.
+        let auto = built(&toml);
+        let rm = built_with(&toml, Method::ReedMuller);
+        prop_assert!(auto.cost.toffoli <= rm.cost.toffoli);
     }
 
     #[test]
@@ -92,6 +118,30 @@ proptest! {
             }
         }
     }
+}
+
+proptest! {
+    #![proptest_config(ProptestConfig { cases: 16, ..ProptestConfig::default() })]
+
+    /// The ESOP heuristic never claims fewer cubes than a proven minimum, and
+    /// both ESOPs compute the function.
+    #[test]
+    fn heuristic_esop_is_never_below_the_exact_one(f in arb_function(5, 2)) {
+        let spec = parse_spec("e.toml", &f.to_toml()).unwrap();
+        let SpecBody::Function(fs) = &spec.body else { unreachable!() };
+        let tables: Vec<_> = (0..fs.outputs.len()).map(|j| fs.table(j).unwrap()).collect();
+        let exact = exact_esop(&tables, Duration::from_secs(3));
+        let heur = esop_of(fs, &SynthLimits::default()).unwrap();
+        for (j, t) in tables.iter().enumerate() {
+            prop_assert_eq!(&exact.esop.table(j), t);
+            prop_assert_eq!(&heur.table(j), t);
+        }
+        prop_assert!(heur.cubes() >= exact.lower_bound);
+        if exact.is_minimal() {
+            prop_assert!(heur.cubes() >= exact.esop.cubes());
+        }
+    }
+
 }
 
 proptest! {

@@ -93,6 +93,16 @@ enum Command {
         #[arg(long)]
         json: bool,
     },
+    /// Run every method that applies, verify each, and print one table.
+    Compare {
+        /// The spec file (TOML).
+        spec: PathBuf,
+        /// Print the table as one JSON object.
+        #[arg(long)]
+        json: bool,
+        #[command(flatten)]
+        limits: LimitArgs,
+    },
     /// List the synthesis methods.
     Methods,
 }
@@ -108,6 +118,25 @@ struct LimitArgs {
     /// Most gates before lowering.
     #[arg(long, default_value_t = SynthLimits::default().max_gates)]
     max_gates: usize,
+    /// Seconds an exact method searches before it returns its best circuit with a proven bound.
+    #[arg(long, default_value_t = SynthLimits::default().exact_seconds)]
+    exact_seconds: f64,
+}
+
+impl LimitArgs {
+    fn build_options(&self, method: Method, verify: bool) -> BuildOptions {
+        BuildOptions {
+            method,
+            limits: SynthLimits {
+                max_table_inputs: self.max_inputs,
+                max_gates: self.max_gates,
+                exact_seconds: self.exact_seconds,
+            },
+            verify: verify.then_some(VerifyOptions {
+                max_states: self.max_states,
+            }),
+        }
+    }
 }
 
 /// A reason to stop, with its exit code.
@@ -179,6 +208,7 @@ fn dispatch(cmd: Command) -> Result<i32, Failure> {
             max_states,
         } => verify_file(&circuit, &spec, json, max_states),
         Command::Cost { circuit, json } => cost(&circuit, json),
+        Command::Compare { spec, json, limits } => compare_methods(&spec, json, &limits),
         Command::Methods => {
             for (_, name, about) in Method::ALL {
                 println!("{name:<14} {about}");
@@ -289,16 +319,7 @@ fn synth(
         ))
     })?;
     let spec = load_spec(spec_path)?;
-    let opts = BuildOptions {
-        method,
-        limits: SynthLimits {
-            max_table_inputs: limits.max_inputs,
-            max_gates: limits.max_gates,
-        },
-        verify: (!no_verify).then_some(VerifyOptions {
-            max_states: limits.max_states,
-        }),
-    };
+    let opts = limits.build_options(method, !no_verify);
     let bar = progress_bar(json);
     let out = build_with_progress(&spec, &opts, &bar).map_err(verdict_failure)?;
     if let oraculum::Verification::Ran(Verdict::Refuted { counterexample }) = &out.verification {
@@ -355,6 +376,74 @@ fn synth(
         }
     }
     Ok(code::DONE)
+}
+
+fn compare_methods(spec_path: &Path, json: bool, limits: &LimitArgs) -> Result<i32, Failure> {
+    let spec = load_spec(spec_path)?;
+    let opts = limits.build_options(Method::Auto, true);
+    let rows = oraculum::compare(&spec, &opts);
+    let best = rows
+        .iter()
+        .filter_map(|(m, r)| r.as_ref().ok().map(|o| (m, o)))
+        .filter(|(_, o)| o.verification.is_proven())
+        .min_by_key(|(_, o)| (o.cost.toffoli, o.cost.qubits, o.cost.mct_total()))
+        .map(|(m, _)| *m);
+    let refuted = rows.iter().any(|(_, r)| {
+        matches!(r, Ok(o) if matches!(o.verification, oraculum::Verification::Ran(Verdict::Refuted { .. })))
+    });
+    if json {
+        let list: Vec<serde_json::Value> = rows
+            .iter()
+            .map(|(m, r)| match r {
+                Ok(o) => serde_json::to_value(o.report()).unwrap_or_default(),
+                Err(e) => json!({ "method": m.name(), "error": e.to_string() }),
+            })
+            .collect();
+        let v = json!({
+            "spec": spec_path.display().to_string(),
+            "name": spec.name,
+            "methods": list,
+            "best": best.map(|m| m.name()),
+        });
+        println!("{}", serde_json::to_string_pretty(&v).unwrap_or_default());
+    } else {
+        println!(
+            "{:<13} {:>8} {:>8} {:>8} {:>7} {:>8} {:>9}  verified",
+            "method", "mct", "toffoli", "cnot", "qubits", "t-count", "seconds"
+        );
+        for (m, r) in &rows {
+            match r {
+                Ok(o) => {
+                    let secs = o.timings.synth + o.timings.lower + o.timings.verify;
+                    let v = match &o.verification {
+                        oraculum::Verification::Ran(v) => v.summary(),
+                        _ => "no".into(),
+                    };
+                    let mark = if Some(*m) == best { "*" } else { " " };
+                    println!(
+                        "{:<13} {:>8} {:>8} {:>8} {:>7} {:>8} {:>9.3}  {v}",
+                        format!("{m}{mark}"),
+                        o.cost.mct_total(),
+                        o.cost.toffoli,
+                        o.cost.cnot,
+                        o.cost.qubits,
+                        o.cost.t_count,
+                        secs
+                    );
+                    for n in &o.notes {
+                        println!("{:<13} note: {n}", "");
+                    }
+                }
+                Err(e) => println!("{:<13} no circuit: {e}", m.name()),
+            }
+        }
+        if let Some(m) = best {
+            println!(
+                "* fewest Toffolis among verified circuits: {m} (synth --method {m} writes it)"
+            );
+        }
+    }
+    Ok(if refuted { code::REFUTED } else { code::DONE })
 }
 
 fn verify_file(circuit: &Path, spec: &Path, json: bool, max_states: u64) -> Result<i32, Failure> {

@@ -1,10 +1,16 @@
 //! Synthesis methods, one file each, and the choice between them.
 
 mod arith;
+mod esop;
+mod esop_exact;
 mod reed_muller;
 mod transform;
 
 pub use arith::{arith_lines, arithmetic, Registers};
+pub use esop::{
+    esop_circuit, esop_of, exorlink_minimize, minimize_tables, EXORLINK_MAX_TERMS, EXORLINK_WORK,
+};
+pub use esop_exact::{exact_esop, EsopTable, ExactEsop, EXACT_ESOP_MAX_INPUTS};
 pub use reed_muller::{reed_muller, reed_muller_coefficients};
 pub use transform::transform;
 
@@ -24,11 +30,15 @@ pub enum Method {
     Transform,
     /// Structural generators for arithmetic specs.
     Structural,
+    /// ESOP extraction and exorlink minimization, one gate per cube and output.
+    Esop,
+    /// Minimum ESOP (at most 5 inputs), one gate per cube and output.
+    EsopExact,
 }
 
 impl Method {
     /// Every method with its name and what it takes.
-    pub const ALL: [(Method, &'static str, &'static str); 4] = [
+    pub const ALL: [(Method, &'static str, &'static str); 6] = [
         (
             Method::Auto,
             "auto",
@@ -38,6 +48,16 @@ impl Method {
             Method::ReedMuller,
             "reed-muller",
             "functions: positive-polarity Reed-Muller expansion, one gate per monomial",
+        ),
+        (
+            Method::Esop,
+            "esop",
+            "functions: minimized exclusive-or sum of products, one gate per cube",
+        ),
+        (
+            Method::EsopExact,
+            "esop-exact",
+            "functions of at most 5 inputs: minimum exclusive-or sum of products",
         ),
         (
             Method::Transform,
@@ -76,12 +96,15 @@ impl fmt::Display for Method {
 }
 
 /// Budgets that synthesis respects; running out is an error that names the flag.
-#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+#[derive(Clone, Copy, Debug, PartialEq)]
 pub struct SynthLimits {
     /// Most inputs a truth-table method will expand (default 24; `--max-inputs`).
     pub max_table_inputs: usize,
     /// Most gates a circuit may have before lowering (default 2,000,000; `--max-gates`).
     pub max_gates: usize,
+    /// Seconds an exact method may search before it returns its best circuit
+    /// with a proven bound (default 30; `--exact-seconds`).
+    pub exact_seconds: f64,
 }
 
 impl Default for SynthLimits {
@@ -89,6 +112,7 @@ impl Default for SynthLimits {
         SynthLimits {
             max_table_inputs: 24,
             max_gates: 2_000_000,
+            exact_seconds: 30.0,
         }
     }
 }
@@ -149,39 +173,71 @@ pub fn permutation_lines(width: usize) -> Vec<LineInfo> {
         .collect()
 }
 
-/// The method `auto` stands for, for this spec.
-pub fn resolve(spec: &Spec, method: Method) -> Method {
-    match (method, &spec.body) {
-        (Method::Auto, SpecBody::Function(_)) => Method::ReedMuller,
-        (Method::Auto, SpecBody::Permutation(_)) => Method::Transform,
-        (Method::Auto, SpecBody::Arithmetic(_)) => Method::Structural,
-        (m, _) => m,
+/// A synthesized circuit of MCT gates and what the method wants the user to know.
+#[derive(Clone, Debug)]
+pub struct Synthesis {
+    /// The circuit, not yet lowered.
+    pub circuit: Circuit,
+    /// Statements about the result (for example a bound an exact method proved).
+    pub notes: Vec<String>,
+}
+
+impl From<Circuit> for Synthesis {
+    fn from(circuit: Circuit) -> Self {
+        Synthesis {
+            circuit,
+            notes: Vec::new(),
+        }
     }
 }
 
-/// Synthesizes a circuit of MCT gates (not yet lowered) for `spec`.
+/// Every method that applies to `spec`, cheapest first; `thorough` adds the
+/// slow ones (used by `compare`).
+pub fn candidates(spec: &Spec, thorough: bool) -> Vec<Method> {
+    match &spec.body {
+        SpecBody::Function(f) => {
+            let n = f.inputs.len();
+            let mut v = vec![Method::ReedMuller, Method::Esop];
+            let instant = n <= 4 && f.outputs.len() == 1;
+            if instant || (thorough && n <= EXACT_ESOP_MAX_INPUTS) {
+                v.push(Method::EsopExact);
+            }
+            v
+        }
+        SpecBody::Permutation(_) => vec![Method::Transform],
+        SpecBody::Arithmetic(_) => vec![Method::Structural],
+    }
+}
+
+/// Synthesizes a circuit of MCT gates (not yet lowered) for `spec` with one
+/// method (`auto` is resolved by the pipeline, which tries the candidates).
 pub fn synthesize(
     spec: &Spec,
     method: Method,
     limits: &SynthLimits,
-) -> Result<Circuit, SynthError> {
-    let method = resolve(spec, method);
+) -> Result<Synthesis, SynthError> {
     match (&spec.body, method) {
-        (SpecBody::Function(f), Method::ReedMuller) => reed_muller(f, limits),
+        (SpecBody::Function(f), Method::ReedMuller) => Ok(reed_muller(f, limits)?.into()),
+        (SpecBody::Function(f), Method::Esop) => Ok(esop::esop(f, limits)?.into()),
+        (SpecBody::Function(f), Method::EsopExact) => esop_exact_circuit(f, limits),
         (SpecBody::Permutation(p), Method::Transform) => {
             let c = transform(p);
             check_gates(&c, limits)?;
-            Ok(c)
+            Ok(c.into())
         }
         (SpecBody::Arithmetic(a), Method::Structural) => {
             let c = arithmetic(a);
             check_gates(&c, limits)?;
-            Ok(c)
+            Ok(c.into())
+        }
+        (_, Method::Auto) => {
+            let m = candidates(spec, false)[0];
+            synthesize(spec, m, limits)
         }
         (SpecBody::Function(_), m) => Err(SynthError::NotApplicable {
             method: m.name(),
             kind: "function",
-            hint: "use reed-muller or auto",
+            hint: "use reed-muller, esop, esop-exact or auto",
         }),
         (SpecBody::Permutation(_), m) => Err(SynthError::NotApplicable {
             method: m.name(),
@@ -194,6 +250,39 @@ pub fn synthesize(
             hint: "use structural or auto",
         }),
     }
+}
+
+fn esop_exact_circuit(f: &FunctionSpec, limits: &SynthLimits) -> Result<Synthesis, SynthError> {
+    let n = f.inputs.len();
+    if n > EXACT_ESOP_MAX_INPUTS {
+        return Err(SynthError::NotApplicable {
+            method: "esop-exact",
+            kind: "function",
+            hint: "it takes at most 5 inputs; use esop",
+        });
+    }
+    let tables: Vec<_> = (0..f.outputs.len())
+        .map(|j| f.table(j).expect("at most 5 inputs"))
+        .collect();
+    let budget = std::time::Duration::from_secs_f64(limits.exact_seconds.max(0.0));
+    let r = exact_esop(&tables, budget);
+    let mut notes = Vec::new();
+    if r.is_minimal() {
+        notes.push(format!(
+            "esop-exact: {} cubes, proven minimal",
+            r.esop.cubes()
+        ));
+    } else {
+        notes.push(format!(
+            "esop-exact: {} cubes, NOT proven minimal: the search stopped at the time budget with a proven lower bound of {} cubes (raise --exact-seconds)",
+            r.esop.cubes(),
+            r.lower_bound
+        ));
+    }
+    Ok(Synthesis {
+        circuit: esop_circuit(f, &r.esop),
+        notes,
+    })
 }
 
 fn check_gates(c: &Circuit, limits: &SynthLimits) -> Result<(), SynthError> {
