@@ -26,6 +26,7 @@ mod circuit;
 mod export;
 mod logic;
 mod lower;
+mod mutate;
 mod opt;
 mod pipeline;
 mod spec;
@@ -39,6 +40,7 @@ pub use logic::{
     TableError, TruthTable, MAX_PERMUTATION_WIDTH, MAX_TABLE_VARS,
 };
 pub use lower::{lower, ANCILLA_REGISTER};
+pub use mutate::{mutants, Fault};
 pub use opt::{cancel_pairs, CANCEL_WINDOW};
 pub use pipeline::{
     build, build_one, build_with_progress, compare, BuildError, BuildOptions, Outcome, Report,
@@ -55,6 +57,8 @@ pub use synth::{
     Synthesis, EXACT_ESOP_MAX_INPUTS, EXORLINK_MAX_TERMS, EXORLINK_WORK,
 };
 pub use verify::{
-    verify, verify_with_progress, Counterexample, RegisterValue, Verdict, VerifyError,
-    VerifyOptions, BLOCK_WORDS, DEFAULT_MAX_STATES,
+    fingerprint, free_lines, merge_shards, sat_equivalence, verify, verify_shard,
+    verify_with_progress, Counterexample, RegisterValue, Route, SatError, SatOutcome, ShardError,
+    ShardResult, Verdict, VerifyError, VerifyOptions, BLOCK_WORDS, DEFAULT_MAX_STATES,
+    DEFAULT_SAT_SECONDS, SAT_MAX_TABLE_INPUTS, SHARD_FORMAT,
 };

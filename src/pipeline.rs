@@ -73,7 +73,7 @@ pub struct Outcome {
 }
 
 /// Why a build stopped before a verdict.
-#[derive(Debug, Clone, PartialEq, Eq, thiserror::Error)]
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
 pub enum BuildError {
     /// Synthesis refused.
     #[error(transparent)]
@@ -86,11 +86,10 @@ pub enum BuildError {
 impl BuildError {
     /// True when a resource limit, not the input, stopped the job.
     pub fn is_limit(&self) -> bool {
-        matches!(
-            self,
-            BuildError::Synth(SynthError::Limit { .. })
-                | BuildError::Verify(VerifyError::TooLarge { .. })
-        )
+        match self {
+            BuildError::Synth(e) => matches!(e, SynthError::Limit { .. }),
+            BuildError::Verify(e) => e.is_limit(),
+        }
     }
 }
 

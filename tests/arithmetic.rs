@@ -90,6 +90,7 @@ fn modular_ops_for_moduli_2_to_40() {
             if let Verification::Ran(Verdict::Proven {
                 states,
                 outside_domain,
+                ..
             }) = out.verification
             {
                 assert_eq!(states, c * n * n, "modulus {n}");

@@ -191,20 +191,35 @@ fn cost_reads_a_qasm_file() {
 #[test]
 fn resource_limit_exits_3_and_names_the_flag_and_writes_nothing() {
     let dir = workspace();
-    let o = run_in(
-        dir.path(),
-        &[
-            "synth",
-            "specs/greenhouse.toml",
-            "-o",
-            "g.qasm",
-            "--max-states",
-            "16",
-        ],
-    );
+    let exhaustive_only = [
+        "synth",
+        "specs/greenhouse.toml",
+        "-o",
+        "g.qasm",
+        "--max-states",
+        "16",
+        "--verify-method",
+        "exhaustive",
+    ];
+    let o = run_in(dir.path(), &exhaustive_only);
     let (_, err) = text(&o);
     assert_eq!(o.status.code(), Some(3), "{err}");
     assert!(err.contains("--max-states"), "{err}");
+    assert!(!dir.path().join("g.qasm").exists());
+    let no_time = [
+        "synth",
+        "specs/greenhouse.toml",
+        "-o",
+        "g.qasm",
+        "--verify-method",
+        "sat",
+        "--sat-seconds",
+        "0",
+    ];
+    let o = run_in(dir.path(), &no_time);
+    let (_, err) = text(&o);
+    assert_eq!(o.status.code(), Some(3), "{err}");
+    assert!(err.contains("--sat-seconds"), "{err}");
     assert!(!dir.path().join("g.qasm").exists());
     let o = run_in(
         dir.path(),
@@ -464,4 +479,97 @@ fn compare_lists_every_method_and_marks_the_best() {
     let o = run_in(dir.path(), &["compare", "specs/dice-shuffle.toml"]);
     let (out, _) = text(&o);
     assert!(out.contains("transform*"), "{out}");
+}
+
+#[test]
+fn shards_from_the_command_line() {
+    let dir = workspace();
+    let o = run_in(
+        dir.path(),
+        &["synth", "specs/fuel-sum.toml", "-o", "f.qasm"],
+    );
+    assert_eq!(o.status.code(), Some(0));
+    for k in 0..4 {
+        let shard = format!("{k}/4");
+        let out = format!("s{k}.json");
+        let o = run_in(
+            dir.path(),
+            &[
+                "verify",
+                "f.qasm",
+                "--spec",
+                "specs/fuel-sum.toml",
+                "--shard",
+                &shard,
+                "-o",
+                &out,
+            ],
+        );
+        assert_eq!(o.status.code(), Some(0), "{:?}", text(&o));
+    }
+    let o = run_in(
+        dir.path(),
+        &["merge", "s0.json", "s1.json", "s2.json", "s3.json"],
+    );
+    let (out, _) = text(&o);
+    assert_eq!(o.status.code(), Some(0), "{out}");
+    assert!(out.contains("verified on all 131072 basis states"), "{out}");
+    let o = run_in(dir.path(), &["merge", "s0.json", "s1.json", "s3.json"]);
+    assert_eq!(o.status.code(), Some(2));
+    assert!(text(&o).1.contains("missing: [2]"), "{:?}", text(&o));
+    let o = run_in(
+        dir.path(),
+        &[
+            "verify",
+            "f.qasm",
+            "--spec",
+            "specs/fuel-sum.toml",
+            "--shard",
+            "4/4",
+        ],
+    );
+    assert_eq!(o.status.code(), Some(2));
+}
+
+#[test]
+fn sat_route_from_the_command_line() {
+    let dir = workspace();
+    std::fs::write(
+        dir.path().join("wide.toml"),
+        "kind = \"arithmetic\"\nop = \"less_than\"\nwidth = 48\ncontrolled = true\n",
+    )
+    .unwrap();
+    let o = run_in(
+        dir.path(),
+        &["synth", "wide.toml", "-o", "w.qasm", "--json"],
+    );
+    assert_eq!(o.status.code(), Some(0), "{:?}", text(&o));
+    let v: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
+    assert_eq!(v["verification"]["by"], "sat");
+    assert_eq!(v["verification"]["free_bits"], 98);
+    let o = run_in(
+        dir.path(),
+        &[
+            "verify",
+            "w.qasm",
+            "--spec",
+            "wide.toml",
+            "--method",
+            "exhaustive",
+        ],
+    );
+    assert_eq!(o.status.code(), Some(3));
+    assert!(text(&o).1.contains("--max-states"));
+    let o = run_in(
+        dir.path(),
+        &[
+            "verify",
+            "w.qasm",
+            "--spec",
+            "wide.toml",
+            "--method",
+            "proof",
+        ],
+    );
+    assert_eq!(o.status.code(), Some(2));
 }

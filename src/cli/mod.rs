@@ -4,8 +4,8 @@ use clap::{Parser, Subcommand, ValueEnum};
 use indicatif::{ProgressBar, ProgressStyle};
 use oraculum::{
     build_with_progress, listing, parse_spec, read_qasm, verify_with_progress, BuildOptions,
-    Circuit, Cost, LocatedError, Method, Spec, SynthLimits, Verdict, VerifyError, VerifyOptions,
-    DEFAULT_MAX_STATES,
+    Circuit, Cost, LocatedError, Method, Route, Spec, SynthLimits, Verdict, VerifyError,
+    VerifyOptions, DEFAULT_MAX_STATES, DEFAULT_SAT_SECONDS,
 };
 use serde_json::json;
 use std::io::{IsTerminal, Write};
@@ -81,9 +81,30 @@ enum Command {
         /// Print the verdict as one JSON object.
         #[arg(long)]
         json: bool,
-        /// Most basis states to simulate.
+        /// Most basis states to simulate (for --shard: in this shard).
         #[arg(long, default_value_t = DEFAULT_MAX_STATES)]
         max_states: u64,
+        /// How to prove it: auto (exhaustive within --max-states, SAT past it), exhaustive, sat.
+        #[arg(long, default_value = "auto")]
+        method: String,
+        /// Seconds the SAT solver may take.
+        #[arg(long, default_value_t = DEFAULT_SAT_SECONDS)]
+        sat_seconds: f64,
+        /// Check only slice K of N equal slices of the state space (K from 0), e.g. 3/16.
+        #[arg(long, value_name = "K/N")]
+        shard: Option<String>,
+        /// With --shard: write the shard's result file here (else to standard output).
+        #[arg(short, long)]
+        output: Option<PathBuf>,
+    },
+    /// Merge the result files of every shard into one verdict.
+    Merge {
+        /// The shard result files.
+        #[arg(required = true)]
+        results: Vec<PathBuf>,
+        /// Print the verdict as one JSON object.
+        #[arg(long)]
+        json: bool,
     },
     /// Print the cost report of an OpenQASM 2 circuit.
     Cost {
@@ -121,11 +142,25 @@ struct LimitArgs {
     /// Seconds an exact method searches before it returns its best circuit with a proven bound.
     #[arg(long, default_value_t = SynthLimits::default().exact_seconds)]
     exact_seconds: f64,
+    /// How to prove the circuit: auto (exhaustive within --max-states, SAT past it), exhaustive, sat.
+    #[arg(long, default_value = "auto")]
+    verify_method: String,
+    /// Seconds the SAT solver may take.
+    #[arg(long, default_value_t = DEFAULT_SAT_SECONDS)]
+    sat_seconds: f64,
+}
+
+fn route(name: &str) -> Result<Route, Failure> {
+    Route::from_name(name).ok_or_else(|| {
+        Failure::bad(format!(
+            "unknown verification method '{name}'; the methods are auto, exhaustive, sat"
+        ))
+    })
 }
 
 impl LimitArgs {
-    fn build_options(&self, method: Method, verify: bool) -> BuildOptions {
-        BuildOptions {
+    fn build_options(&self, method: Method, verify: bool) -> Result<BuildOptions, Failure> {
+        Ok(BuildOptions {
             method,
             limits: SynthLimits {
                 max_table_inputs: self.max_inputs,
@@ -134,8 +169,10 @@ impl LimitArgs {
             },
             verify: verify.then_some(VerifyOptions {
                 max_states: self.max_states,
+                route: route(&self.verify_method)?,
+                sat_seconds: self.sat_seconds,
             }),
-        }
+        })
     }
 }
 
@@ -206,7 +243,22 @@ fn dispatch(cmd: Command) -> Result<i32, Failure> {
             spec,
             json,
             max_states,
-        } => verify_file(&circuit, &spec, json, max_states),
+            method,
+            sat_seconds,
+            shard,
+            output,
+        } => {
+            let opts = VerifyOptions {
+                max_states,
+                route: route(&method)?,
+                sat_seconds,
+            };
+            match shard {
+                Some(k) => verify_shard_file(&circuit, &spec, &k, output.as_deref(), &opts),
+                None => verify_file(&circuit, &spec, json, &opts),
+            }
+        }
+        Command::Merge { results, json } => merge(&results, json),
         Command::Cost { circuit, json } => cost(&circuit, json),
         Command::Compare { spec, json, limits } => compare_methods(&spec, json, &limits),
         Command::Methods => {
@@ -319,7 +371,7 @@ fn synth(
         ))
     })?;
     let spec = load_spec(spec_path)?;
-    let opts = limits.build_options(method, !no_verify);
+    let opts = limits.build_options(method, !no_verify)?;
     let bar = progress_bar(json);
     let out = build_with_progress(&spec, &opts, &bar).map_err(verdict_failure)?;
     if let oraculum::Verification::Ran(Verdict::Refuted { counterexample }) = &out.verification {
@@ -380,7 +432,7 @@ fn synth(
 
 fn compare_methods(spec_path: &Path, json: bool, limits: &LimitArgs) -> Result<i32, Failure> {
     let spec = load_spec(spec_path)?;
-    let opts = limits.build_options(Method::Auto, true);
+    let opts = limits.build_options(Method::Auto, true)?;
     let rows = oraculum::compare(&spec, &opts);
     let best = rows
         .iter()
@@ -446,19 +498,116 @@ fn compare_methods(spec_path: &Path, json: bool, limits: &LimitArgs) -> Result<i
     Ok(if refuted { code::REFUTED } else { code::DONE })
 }
 
-fn verify_file(circuit: &Path, spec: &Path, json: bool, max_states: u64) -> Result<i32, Failure> {
+fn verify_failure(circuit: &Path, e: VerifyError) -> Failure {
+    Failure {
+        code: if e.is_limit() {
+            code::LIMIT
+        } else {
+            code::BAD_INPUT
+        },
+        message: format!("{}: {e}", circuit.display()),
+    }
+}
+
+fn parse_shard(text: &str) -> Result<(u64, u64), Failure> {
+    let bad = || {
+        Failure::bad(format!(
+            "--shard takes K/N with 0 <= K < N, for example 3/16; got '{text}'"
+        ))
+    };
+    let (k, n) = text.split_once('/').ok_or_else(bad)?;
+    let k: u64 = k.trim().parse().map_err(|_| bad())?;
+    let n: u64 = n.trim().parse().map_err(|_| bad())?;
+    if n == 0 || k >= n || n > 1 << 20 {
+        return Err(bad());
+    }
+    Ok((k, n))
+}
+
+fn verify_shard_file(
+    circuit: &Path,
+    spec: &Path,
+    shard: &str,
+    output: Option<&Path>,
+    opts: &VerifyOptions,
+) -> Result<i32, Failure> {
+    let (k, n) = parse_shard(shard)?;
+    let circuit_text = read_text(circuit)?;
+    let spec_text = read_text(spec)?;
+    let c = read_qasm(&circuit.display().to_string(), &circuit_text)?;
+    let s = parse_spec(&spec.display().to_string(), &spec_text)?;
+    let bar = progress_bar(output.is_none());
+    let r = oraculum::verify_shard(
+        &c,
+        &s,
+        opts,
+        k,
+        n,
+        circuit_text.as_bytes(),
+        spec_text.as_bytes(),
+        &bar,
+    )
+    .map_err(|e| verify_failure(circuit, e))?;
+    let text = serde_json::to_string_pretty(&r).unwrap_or_default() + "\n";
+    match output {
+        Some(p) => {
+            write_atomic(p, &text, &[circuit, spec])?;
+            println!(
+                "shard {k}/{n}: {} states checked, {}; wrote {}",
+                r.states,
+                if r.proven { "all correct" } else { "REFUTED" },
+                p.display()
+            );
+        }
+        None => print!("{text}"),
+    }
+    Ok(if r.proven { code::DONE } else { code::REFUTED })
+}
+
+fn merge(paths: &[PathBuf], json: bool) -> Result<i32, Failure> {
+    let mut results = Vec::new();
+    for p in paths {
+        let text = read_text(p)?;
+        let r: oraculum::ShardResult = serde_json::from_str(&text).map_err(|e| {
+            Failure::bad(format!(
+                "{}:{}:{}: not a shard result file: {e}",
+                p.display(),
+                e.line(),
+                e.column()
+            ))
+        })?;
+        results.push(r);
+    }
+    let v = oraculum::merge_shards(&results).map_err(|e| Failure::bad(e.to_string()))?;
+    if json {
+        println!("{}", serde_json::to_string_pretty(&v).unwrap_or_default());
+    } else {
+        match &v {
+            Verdict::Proven { .. } => println!("{} shards: {}", results.len(), v.summary()),
+            Verdict::Refuted { counterexample } => {
+                println!("{} shards: refuted\n{counterexample}", results.len())
+            }
+        }
+    }
+    Ok(if matches!(v, Verdict::Refuted { .. }) {
+        code::REFUTED
+    } else {
+        code::DONE
+    })
+}
+
+fn verify_file(
+    circuit: &Path,
+    spec: &Path,
+    json: bool,
+    opts: &VerifyOptions,
+) -> Result<i32, Failure> {
     let c = load_circuit(circuit)?;
     let s = load_spec(spec)?;
     let bar = progress_bar(json);
     let t = Instant::now();
     let verdict =
-        verify_with_progress(&c, &s, &VerifyOptions { max_states }, &bar).map_err(|e| Failure {
-            code: match e {
-                VerifyError::TooLarge { .. } => code::LIMIT,
-                _ => code::BAD_INPUT,
-            },
-            message: format!("{}: {e}", circuit.display()),
-        })?;
+        verify_with_progress(&c, &s, opts, &bar).map_err(|e| verify_failure(circuit, e))?;
     let seconds = t.elapsed().as_secs_f64();
     let refuted = matches!(verdict, Verdict::Refuted { .. });
     if json {

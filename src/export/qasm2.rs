@@ -192,6 +192,9 @@ pub fn read_qasm(path: &str, text: &str) -> Result<Circuit, LocatedError> {
                 if regs.iter().any(|r| r.name == name) {
                     return Err(src.error(rest_at, format!("register '{name}' is declared twice")));
                 }
+                if lines.len() + size as usize > 1 << 20 {
+                    return Err(src.error(at, "more than 2^20 qubits declared"));
+                }
                 let first = lines.len() as u32;
                 for i in 0..size {
                     lines.push(LineInfo {
@@ -206,9 +209,6 @@ pub fn read_qasm(path: &str, text: &str) -> Result<Circuit, LocatedError> {
                     });
                 }
                 regs.push(Reg { name, first, size });
-                if lines.len() > 1 << 20 {
-                    return Err(src.error(at, "more than 2^20 qubits declared"));
-                }
             }
             "barrier" | "measure" => {}
             "x" | "cx" | "CX" | "ccx" => {

@@ -24,7 +24,7 @@
 
 use super::{function_lines, reed_muller_coefficients, SynthError, SynthLimits};
 use crate::circuit::{Circuit, Control, Gate, Line, LineInfo, Role};
-use crate::logic::{third, Cube, Esop, Literal, TruthTable};
+use crate::logic::{third, Cube, Esop, Literal, TruthTable, MAX_TABLE_VARS};
 use crate::lower::ANCILLA_REGISTER;
 use crate::spec::FunctionSpec;
 use std::collections::HashMap;
@@ -48,11 +48,11 @@ pub fn esop(f: &FunctionSpec, limits: &SynthLimits) -> Result<Circuit, SynthErro
 /// The heuristic's ESOP for every output of `f`.
 pub fn esop_of(f: &FunctionSpec, limits: &SynthLimits) -> Result<Esop, SynthError> {
     let n = f.inputs.len();
-    if n > limits.max_table_inputs {
+    if n > limits.max_table_inputs.min(MAX_TABLE_VARS) {
         return Err(SynthError::Limit {
             what: "the number of inputs for a truth-table method",
             value: n,
-            limit: limits.max_table_inputs,
+            limit: limits.max_table_inputs.min(MAX_TABLE_VARS),
             flag: "--max-inputs",
         });
     }

@@ -16,7 +16,7 @@
 
 use super::{function_lines, SynthError, SynthLimits};
 use crate::circuit::{Circuit, Control, Gate, Line};
-use crate::logic::TruthTable;
+use crate::logic::{TruthTable, MAX_TABLE_VARS};
 use crate::spec::FunctionSpec;
 
 /// Variable `i < 6` pattern inside a 64-bit word.
@@ -75,11 +75,11 @@ fn monomials_in_order(coeffs: &TruthTable, mut emit: impl FnMut(u64)) {
 /// Builds the oracle for `f` from the Reed-Muller form of each output.
 pub fn reed_muller(f: &FunctionSpec, limits: &SynthLimits) -> Result<Circuit, SynthError> {
     let n = f.inputs.len();
-    if n > limits.max_table_inputs {
+    if n > limits.max_table_inputs.min(MAX_TABLE_VARS) {
         return Err(SynthError::Limit {
             what: "the number of inputs for a truth-table method",
             value: n,
-            limit: limits.max_table_inputs,
+            limit: limits.max_table_inputs.min(MAX_TABLE_VARS),
             flag: "--max-inputs",
         });
     }

@@ -12,6 +12,12 @@
 //! 64 states; a block of [`BLOCK_WORDS`] words runs through the whole gate list
 //! before the next block, and blocks run in parallel.
 
+mod sat;
+mod shard;
+
+pub use sat::{sat_equivalence, SatError, SatOutcome, SAT_MAX_TABLE_INPUTS};
+pub use shard::{fingerprint, merge_shards, verify_shard, ShardError, ShardResult, SHARD_FORMAT};
+
 use crate::circuit::Circuit;
 use crate::logic::Expr;
 use crate::spec::{ArithOp, ArithSpec, OutputDef, Spec, SpecBody};
@@ -26,23 +32,59 @@ pub const BLOCK_WORDS: usize = 64;
 /// Default for [`VerifyOptions::max_states`]: 2^30 basis states.
 pub const DEFAULT_MAX_STATES: u64 = 1 << 30;
 
+/// How to prove a circuit.
+#[derive(Clone, Copy, Debug, Default, PartialEq, Eq)]
+pub enum Route {
+    /// Exhaustive simulation within `max_states`, SAT past it.
+    #[default]
+    Auto,
+    /// Exhaustive simulation only.
+    Exhaustive,
+    /// SAT equivalence only.
+    Sat,
+}
+
+impl Route {
+    /// Every route with its user-visible name.
+    pub const ALL: [(Route, &'static str); 3] = [
+        (Route::Auto, "auto"),
+        (Route::Exhaustive, "exhaustive"),
+        (Route::Sat, "sat"),
+    ];
+
+    /// Looks a route up by name.
+    pub fn from_name(name: &str) -> Option<Route> {
+        Route::ALL.iter().find(|(_, n)| *n == name).map(|(r, _)| *r)
+    }
+}
+
+/// Default for [`VerifyOptions::sat_seconds`].
+pub const DEFAULT_SAT_SECONDS: f64 = 300.0;
+
 /// Options of a verification run.
 #[derive(Clone, Copy, Debug)]
 pub struct VerifyOptions {
-    /// The most basis states to simulate; past it the run is refused (`--max-states`).
+    /// The most basis states to simulate; past it the run is refused or goes to
+    /// SAT (`--max-states`).
     pub max_states: u64,
+    /// Which proof to use.
+    pub route: Route,
+    /// Seconds the SAT solver may take (`--sat-seconds`).
+    pub sat_seconds: f64,
 }
 
 impl Default for VerifyOptions {
     fn default() -> Self {
         VerifyOptions {
             max_states: DEFAULT_MAX_STATES,
+            route: Route::Auto,
+            sat_seconds: DEFAULT_SAT_SECONDS,
         }
     }
 }
 
 /// The value of one register in a counterexample.
-#[derive(Clone, Debug, PartialEq, Eq, Serialize)]
+#[derive(Clone, Debug, PartialEq, Eq, Serialize, serde::Deserialize)]
 pub struct RegisterValue {
     /// Register name.
     pub register: String,
@@ -82,10 +124,11 @@ impl fmt::Display for RegisterValue {
 }
 
 /// One basis state on which the circuit does not do what the spec says.
-#[derive(Clone, Debug, PartialEq, Eq, Serialize)]
+#[derive(Clone, Debug, PartialEq, Eq, Serialize, serde::Deserialize)]
 pub struct Counterexample {
-    /// The basis state's number (see the module docs for the bit order).
-    pub state: u64,
+    /// The basis state's number (see the module docs for the bit order), when
+    /// it fits in 64 bits.
+    pub state: Option<u64>,
     /// The registers going in.
     pub input: Vec<RegisterValue>,
     /// The registers the spec asks for coming out.
@@ -117,7 +160,11 @@ impl fmt::Display for Counterexample {
 pub enum Verdict {
     /// Every basis state checked and correct.
     Proven {
-        /// How many basis states were checked.
+        /// `exhaustive` or `sat`.
+        by: &'static str,
+        /// Free lines (inputs and targets): the proof covers `2^free_bits` states.
+        free_bits: u32,
+        /// How many basis states were simulated and checked (0 for SAT).
         states: u64,
         /// Basis states outside the op's domain (inputs at or above the
         /// modulus of `add_mod`), simulated but not checked.
@@ -136,18 +183,26 @@ impl Verdict {
     pub fn summary(&self) -> String {
         match self {
             Verdict::Proven {
+                by: "sat",
+                free_bits,
+                ..
+            } => format!("verified by SAT equivalence on all 2^{free_bits} basis states"),
+            Verdict::Proven {
                 states,
                 outside_domain: 0,
+                ..
             } => format!("verified on all {states} basis states"),
             Verdict::Proven {
                 states,
                 outside_domain,
+                ..
             } => format!(
                 "verified on all {states} basis states of the domain ({outside_domain} outside it, where the op promises nothing)"
             ),
-            Verdict::Refuted { counterexample } => {
-                format!("refuted on basis state {}", counterexample.state)
-            }
+            Verdict::Refuted { counterexample } => match counterexample.state {
+                Some(s) => format!("refuted on basis state {s}"),
+                None => "refuted".to_string(),
+            },
         }
     }
 }
@@ -157,7 +212,7 @@ fn is_zero(v: &u64) -> bool {
 }
 
 /// Why a verification could not run.
-#[derive(Clone, Debug, PartialEq, Eq, thiserror::Error)]
+#[derive(Clone, Debug, PartialEq, thiserror::Error)]
 pub enum VerifyError {
     /// Too many basis states for the exhaustive check.
     #[error("exhaustive verification needs 2^{bits} basis states, over the limit of {limit}; raise it with --max-states, or write the circuit unproven with --no-verify (nothing was verified)")]
@@ -170,9 +225,22 @@ pub enum VerifyError {
     /// The circuit's registers do not fit the spec.
     #[error("the circuit does not fit the spec: {0}")]
     Binding(String),
-    /// The spec kind has no reference model in this verifier yet.
-    #[error("no reference model for {0} specs in this verifier")]
-    Unsupported(&'static str),
+    /// The SAT solver ran out of time.
+    #[error("the SAT check did not finish within {0} s; raise it with --sat-seconds (nothing was verified)")]
+    SatTimeout(f64),
+    /// SAT cannot encode this spec or confirm its answer.
+    #[error(transparent)]
+    Sat(#[from] SatError),
+}
+
+impl VerifyError {
+    /// True when a resource limit, not the input, stopped the check.
+    pub fn is_limit(&self) -> bool {
+        matches!(
+            self,
+            VerifyError::TooLarge { .. } | VerifyError::SatTimeout(_)
+        )
+    }
 }
 
 /// One output's reference.
@@ -334,6 +402,67 @@ pub fn verify_with_progress(
     opts: &VerifyOptions,
     progress: &(dyn Fn(u64, u64) + Sync),
 ) -> Result<Verdict, VerifyError> {
+    let free_bits = free_lines(circuit, spec)?;
+    let fits = free_bits < 63 && (1u64 << free_bits) <= opts.max_states;
+    let use_sat = match opts.route {
+        Route::Sat => true,
+        Route::Exhaustive => false,
+        Route::Auto => !fits,
+    };
+    if !use_sat {
+        let words = if free_bits < 63 {
+            (1u64 << free_bits).div_ceil(64)
+        } else {
+            u64::MAX
+        };
+        return verify_words(circuit, spec, opts, progress, 0, words);
+    }
+    let budget = std::time::Duration::from_secs_f64(opts.sat_seconds.max(0.0));
+    match sat_equivalence(circuit, spec, budget) {
+        Ok(SatOutcome::Equivalent) => Ok(Verdict::Proven {
+            by: "sat",
+            free_bits,
+            states: 0,
+            outside_domain: 0,
+        }),
+        Ok(SatOutcome::Counterexample(c)) => Ok(Verdict::Refuted {
+            counterexample: Box::new(c),
+        }),
+        Ok(SatOutcome::Timeout) => Err(VerifyError::SatTimeout(opts.sat_seconds)),
+        Err(SatError::Unsupported(why)) if opts.route == Route::Auto => {
+            let _ = why;
+            Err(VerifyError::TooLarge {
+                bits: free_bits,
+                limit: opts.max_states,
+            })
+        }
+        Err(e) => Err(e.into()),
+    }
+}
+
+/// The register layout a spec asks of a circuit.
+fn layout_of(spec: &Spec) -> Vec<(&'static str, usize)> {
+    match &spec.body {
+        SpecBody::Function(f) => vec![("x", f.inputs.len()), ("y", f.outputs.len())],
+        SpecBody::Permutation(p) => vec![("x", p.width())],
+        SpecBody::Arithmetic(a) => arithmetic_layout(a),
+    }
+}
+
+/// Number of free lines (inputs and targets) once the circuit is bound to the spec.
+pub fn free_lines(circuit: &Circuit, spec: &Spec) -> Result<u32, VerifyError> {
+    Ok(bind(circuit, &layout_of(spec))?.free.len() as u32)
+}
+
+/// Exhaustive check of the words `[first, end)` of the state space (64 states a word).
+fn verify_words(
+    circuit: &Circuit,
+    spec: &Spec,
+    opts: &VerifyOptions,
+    progress: &(dyn Fn(u64, u64) + Sync),
+    first: u64,
+    end: u64,
+) -> Result<Verdict, VerifyError> {
     let (binding, model) = match &spec.body {
         SpecBody::Function(f) => {
             let b = bind(circuit, &[("x", f.inputs.len()), ("y", f.outputs.len())])?;
@@ -366,13 +495,17 @@ pub fn verify_with_progress(
         }
     };
     let bits = binding.free.len() as u32;
-    if bits >= 63 || (1u64 << bits) > opts.max_states {
+    let states_all = if bits < 63 { 1u64 << bits } else { u64::MAX };
+    let end = end.min(states_all.div_ceil(64));
+    let first = first.min(end);
+    let span = (end - first).saturating_mul(64).min(states_all);
+    if bits >= 63 || span > opts.max_states {
         return Err(VerifyError::TooLarge {
             bits,
             limit: opts.max_states,
         });
     }
-    let states = 1u64 << bits;
+    let states = states_all;
     let ops: Vec<Op> = circuit
         .gates()
         .iter()
@@ -392,22 +525,24 @@ pub fn verify_with_progress(
         model,
         states,
     };
-    let words = states.div_ceil(64);
-    let blocks = words.div_ceil(BLOCK_WORDS as u64);
+    let blocks = (end - first).div_ceil(BLOCK_WORDS as u64);
     let done = AtomicU64::new(0);
     let checked = AtomicU64::new(0);
     let failure = (0..blocks).into_par_iter().find_map_first(|b| {
-        let r = checker.block(b * BLOCK_WORDS as u64, &checked);
+        let start = first + b * BLOCK_WORDS as u64;
+        let r = checker.block(start, end, &checked);
         let d = done.fetch_add(64 * BLOCK_WORDS as u64, Ordering::Relaxed);
-        progress((d + 64 * BLOCK_WORDS as u64).min(states), states);
+        progress((d + 64 * BLOCK_WORDS as u64).min(span), span);
         r
     });
     Ok(match failure {
         None => {
             let checked = checked.into_inner();
             Verdict::Proven {
+                by: "exhaustive",
+                free_bits: bits,
                 states: checked,
-                outside_domain: states - checked,
+                outside_domain: span - checked,
             }
         }
         Some(state) => Verdict::Refuted {
@@ -469,28 +604,91 @@ fn eval(e: &Expr, x: &dyn Fn(usize) -> u64) -> u64 {
     }
 }
 
+/// [`eval`] over a block of words at once. Literal children of a gate node are
+/// folded in straight from the input rows, without a temporary row.
+fn eval_block(e: &Expr, x: &[[u64; BLOCK_WORDS]]) -> [u64; BLOCK_WORDS] {
+    fn fold(
+        v: &[Expr],
+        x: &[[u64; BLOCK_WORDS]],
+        init: u64,
+        op: impl Fn(u64, u64) -> u64,
+    ) -> [u64; BLOCK_WORDS] {
+        let mut r = [init; BLOCK_WORDS];
+        for a in v {
+            match a {
+                Expr::Var(j) => {
+                    for (p, &q) in r.iter_mut().zip(&x[*j]) {
+                        *p = op(*p, q);
+                    }
+                }
+                Expr::Not(inner) if matches!(**inner, Expr::Var(_)) => {
+                    let Expr::Var(j) = **inner else {
+                        unreachable!()
+                    };
+                    for (p, &q) in r.iter_mut().zip(&x[j]) {
+                        *p = op(*p, !q);
+                    }
+                }
+                _ => {
+                    let t = eval_block(a, x);
+                    for (p, q) in r.iter_mut().zip(t) {
+                        *p = op(*p, q);
+                    }
+                }
+            }
+        }
+        r
+    }
+    match e {
+        Expr::Const(b) => [if *b { !0 } else { 0 }; BLOCK_WORDS],
+        Expr::Var(j) => x[*j],
+        Expr::Not(a) => eval_block(a, x).map(|v| !v),
+        Expr::And(v) => fold(v, x, !0, |p, q| p & q),
+        Expr::Xor(v) => fold(v, x, 0, |p, q| p ^ q),
+        Expr::Or(v) => fold(v, x, 0, |p, q| p | q),
+    }
+}
+
 impl Checker<'_> {
     /// Simulates one block starting at word `first`; returns the first failing state.
-    fn block(&self, first: u64, checked: &AtomicU64) -> Option<u64> {
-        let total_words = self.states.div_ceil(64);
-        let n_words = (total_words - first).min(BLOCK_WORDS as u64) as usize;
+    fn block(&self, first: u64, end: u64, checked: &AtomicU64) -> Option<u64> {
+        let n_words = (end - first).min(BLOCK_WORDS as u64) as usize;
         let mut st = vec![0u64; self.width * BLOCK_WORDS];
         for (bit, &line) in self.binding.free.iter().enumerate() {
             for w in 0..n_words {
                 st[line * BLOCK_WORDS + w] = free_word(bit, first + w as u64);
             }
         }
+        let row = |l: usize| l * BLOCK_WORDS..(l + 1) * BLOCK_WORDS;
+        let flip = |positive: bool| if positive { 0 } else { !0u64 };
         for op in &self.ops {
+            // The common shapes get their own loops, which the compiler vectorizes.
             let mut fire = [!0u64; BLOCK_WORDS];
-            for &(c, positive) in &op.controls {
-                let flip = if positive { 0 } else { !0 };
-                let row = &st[c * BLOCK_WORDS..(c + 1) * BLOCK_WORDS];
-                for (f, &v) in fire.iter_mut().zip(row) {
-                    *f &= v ^ flip;
+            match op.controls.as_slice() {
+                [] => {}
+                [(a, pa)] => {
+                    let fa = flip(*pa);
+                    for (f, &v) in fire.iter_mut().zip(&st[row(*a)]) {
+                        *f = v ^ fa;
+                    }
+                }
+                [(a, pa), (b, pb)] => {
+                    let (fa, fb) = (flip(*pa), flip(*pb));
+                    let (ra, rb) = (&st[row(*a)], &st[row(*b)]);
+                    for ((f, &x), &y) in fire.iter_mut().zip(ra).zip(rb) {
+                        *f = (x ^ fa) & (y ^ fb);
+                    }
+                }
+                controls => {
+                    for &(c, positive) in controls {
+                        let fc = flip(positive);
+                        for (f, &v) in fire.iter_mut().zip(&st[row(c)]) {
+                            *f &= v ^ fc;
+                        }
+                    }
                 }
             }
-            let row = &mut st[op.target * BLOCK_WORDS..(op.target + 1) * BLOCK_WORDS];
-            for (v, f) in row.iter_mut().zip(fire) {
+            for (v, f) in st[row(op.target)].iter_mut().zip(fire) {
                 *v ^= f;
             }
         }
@@ -499,7 +697,24 @@ impl Checker<'_> {
         } else {
             !0
         };
+        // Expressions are evaluated once for the whole block, row by row.
+        let expr_rows: Vec<Option<Box<[u64; BLOCK_WORDS]>>> = match &self.model {
+            Model::Function { inputs, outputs } => {
+                let x: Vec<[u64; BLOCK_WORDS]> = (0..*inputs)
+                    .map(|j| std::array::from_fn(|w| free_word(j, first + w as u64)))
+                    .collect();
+                outputs
+                    .iter()
+                    .map(|r| match r {
+                        Reference::Expr(e) => Some(Box::new(eval_block(e, &x))),
+                        Reference::Words(..) => None,
+                    })
+                    .collect()
+            }
+            _ => Vec::new(),
+        };
         let mut expected = Vec::with_capacity(self.binding.free.len());
+        let mut pre = vec![0u64; expr_rows.len()];
         for w in 0..n_words {
             let word = first + w as u64;
             let at = |line: usize| st[line * BLOCK_WORDS + w];
@@ -507,7 +722,10 @@ impl Checker<'_> {
             for &a in &self.binding.ancillae {
                 bad |= at(a);
             }
-            let care = self.expected_words(word, &mut expected);
+            for (p, r) in pre.iter_mut().zip(&expr_rows) {
+                *p = r.as_ref().map_or(0, |r| r[w]);
+            }
+            let care = self.expected_words(word, &mut expected, Some(&pre));
             for (&line, e) in self.binding.free.iter().zip(&expected) {
                 bad |= at(line) ^ e;
             }
@@ -521,8 +739,9 @@ impl Checker<'_> {
     }
 
     /// Expected value of every free line, for the 64 states of word `w`, into
-    /// `out`; returns the mask of states inside the op's domain.
-    fn expected_words(&self, w: u64, out: &mut Vec<u64>) -> u64 {
+    /// `out`; returns the mask of states inside the op's domain. `pre` holds
+    /// each expression output's value on this word when already computed.
+    fn expected_words(&self, w: u64, out: &mut Vec<u64>, pre: Option<&[u64]>) -> u64 {
         let nfree = self.binding.free.len();
         out.clear();
         let mut care = !0u64;
@@ -532,7 +751,10 @@ impl Checker<'_> {
                 out.extend((0..n).map(|b| free_word(b, w)));
                 for (k, r) in outputs.iter().enumerate() {
                     let f = match r {
-                        Reference::Expr(e) => eval(e, &|j| free_word(j, w)),
+                        Reference::Expr(e) => match pre {
+                            Some(p) => p[k],
+                            None => eval(e, &|j| free_word(j, w)),
+                        },
                         // x is the low n bits of the state number.
                         Reference::Words(words, len) if *len >= 64 => {
                             words[(w % (*len as u64 / 64)) as usize]
@@ -601,7 +823,7 @@ impl Checker<'_> {
             }
         }
         let mut word = Vec::new();
-        self.expected_words(state / 64, &mut word);
+        self.expected_words(state / 64, &mut word, None);
         let mut want = vec![false; self.width];
         for (&line, e) in self.binding.free.iter().zip(&word) {
             want[line] = (e >> (state % 64)) & 1 == 1;
@@ -634,7 +856,7 @@ impl Checker<'_> {
             }
         }
         Counterexample {
-            state,
+            state: Some(state),
             input: show(&before)
                 .into_iter()
                 .filter(|r| r.register != "anc")

@@ -1,0 +1,660 @@
+//! Equivalence by SAT: a miter between the circuit and the spec, Tseitin-encoded
+//! and solved by CaDiCaL, for widths past the exhaustive limit.
+//!
+//! The circuit side encodes each gate as `t' = t XOR AND(controls)` from fresh
+//! variables for the free lines and constant 0 for the ancillae. The spec side
+//! is the verifier's own encoding of what the lines must hold: an expression
+//! tree, a truth table as a multiplexer tree (identical sub-tables shared), or
+//! for arithmetic a ripple-carry reference built from full adders. The miter
+//! asks for an input on which some free line differs from the spec or some
+//! ancilla ends at 1: unsatisfiable proves the circuit correct on every basis
+//! state; a model is a counterexample, which is then confirmed by simulating
+//! the circuit alone.
+
+use super::{bind, Binding, Counterexample, RegisterValue};
+use crate::circuit::Circuit;
+use crate::logic::Expr;
+use crate::spec::{ArithOp, ArithSpec, OutputDef, Spec, SpecBody};
+use std::collections::HashMap;
+use std::time::Duration;
+
+/// Most inputs a truth table may have to be encoded for SAT.
+pub const SAT_MAX_TABLE_INPUTS: usize = 20;
+
+/// What the SAT check found.
+#[derive(Debug)]
+pub enum SatOutcome {
+    /// No input distinguishes circuit and spec.
+    Equivalent,
+    /// An input where they differ, confirmed by simulation.
+    Counterexample(Counterexample),
+    /// The solver hit the time budget.
+    Timeout,
+}
+
+/// Why the SAT check could not be set up.
+#[derive(Debug, Clone, PartialEq, Eq, thiserror::Error)]
+pub enum SatError {
+    /// The circuit's registers do not fit the spec.
+    #[error("the circuit does not fit the spec: {0}")]
+    Binding(String),
+    /// The spec has no encoding here.
+    #[error("{0}")]
+    Unsupported(String),
+    /// The model the solver returned did not survive simulation: a bug.
+    #[error("internal error: the solver's counterexample was not confirmed by simulation ({0})")]
+    Unconfirmed(String),
+}
+
+struct Cnf {
+    s: cadical::Solver<cadical::Timeout>,
+    next: i32,
+    truth: i32,
+}
+
+impl Cnf {
+    fn new(budget: Duration) -> Self {
+        let mut s: cadical::Solver<cadical::Timeout> = cadical::Solver::new();
+        s.set_callbacks(Some(cadical::Timeout::new(budget.as_secs_f32())));
+        let mut c = Cnf {
+            s,
+            next: 0,
+            truth: 0,
+        };
+        c.truth = c.var();
+        c.s.add_clause([c.truth]);
+        c
+    }
+    fn var(&mut self) -> i32 {
+        self.next += 1;
+        self.next
+    }
+    fn constant(&self, v: bool) -> i32 {
+        if v {
+            self.truth
+        } else {
+            -self.truth
+        }
+    }
+    fn and(&mut self, lits: &[i32]) -> i32 {
+        let mut l: Vec<i32> = Vec::with_capacity(lits.len());
+        for &x in lits {
+            if x == -self.truth {
+                return -self.truth;
+            }
+            if x != self.truth && !l.contains(&x) {
+                if l.contains(&-x) {
+                    return -self.truth;
+                }
+                l.push(x);
+            }
+        }
+        match l.len() {
+            0 => self.truth,
+            1 => l[0],
+            _ => {
+                let v = self.var();
+                let mut long = vec![v];
+                for &x in &l {
+                    self.s.add_clause([-v, x]);
+                    long.push(-x);
+                }
+                self.s.add_clause(long);
+                v
+            }
+        }
+    }
+    fn or(&mut self, lits: &[i32]) -> i32 {
+        let neg: Vec<i32> = lits.iter().map(|x| -x).collect();
+        -self.and(&neg)
+    }
+    fn xor(&mut self, a: i32, b: i32) -> i32 {
+        if a == self.truth {
+            return -b;
+        }
+        if a == -self.truth {
+            return b;
+        }
+        if b == self.truth {
+            return -a;
+        }
+        if b == -self.truth {
+            return a;
+        }
+        if a == b {
+            return -self.truth;
+        }
+        if a == -b {
+            return self.truth;
+        }
+        let z = self.var();
+        self.s.add_clause([-z, a, b]);
+        self.s.add_clause([-z, -a, -b]);
+        self.s.add_clause([z, -a, b]);
+        self.s.add_clause([z, a, -b]);
+        z
+    }
+    fn mux(&mut self, sel: i32, one: i32, zero: i32) -> i32 {
+        let a = self.and(&[sel, one]);
+        let b = self.and(&[-sel, zero]);
+        self.or(&[a, b])
+    }
+    fn maj(&mut self, a: i32, b: i32, c: i32) -> i32 {
+        let ab = self.and(&[a, b]);
+        let ac = self.and(&[a, c]);
+        let bc = self.and(&[b, c]);
+        self.or(&[ab, ac, bc])
+    }
+    /// `x + y + carry_in` over equal widths: (sum bits, carry out).
+    fn add(&mut self, x: &[i32], y: &[i32], carry_in: i32) -> (Vec<i32>, i32) {
+        let mut c = carry_in;
+        let mut sum = Vec::with_capacity(x.len());
+        for (&a, &b) in x.iter().zip(y) {
+            let ab = self.xor(a, b);
+            sum.push(self.xor(ab, c));
+            c = self.maj(a, b, c);
+        }
+        (sum, c)
+    }
+    /// `x >= y` as the carry out of `x + !y + 1`.
+    fn at_least(&mut self, x: &[i32], y: &[i32]) -> i32 {
+        let ny: Vec<i32> = y.iter().map(|v| -v).collect();
+        let t = self.truth;
+        self.add(x, &ny, t).1
+    }
+    fn constant_bits(&self, k: u64, w: usize) -> Vec<i32> {
+        (0..w)
+            .map(|i| self.constant(i < 64 && (k >> i) & 1 == 1))
+            .collect()
+    }
+    fn equal(&mut self, x: &[i32], y: &[i32]) -> i32 {
+        let diffs: Vec<i32> = x.iter().zip(y).map(|(&a, &b)| self.xor(a, b)).collect();
+        let any = self.or(&diffs);
+        -any
+    }
+    /// A truth table over `inputs` (bit `i` of `words` is the value on input pattern
+    /// `i`) as a multiplexer tree on the top input, identical halves shared.
+    fn table(
+        &mut self,
+        words: &[u64],
+        vars: usize,
+        inputs: &[i32],
+        memo: &mut HashMap<(usize, Vec<u64>), i32>,
+    ) -> i32 {
+        if vars == 0 {
+            return self.constant(words[0] & 1 == 1);
+        }
+        let key = (vars, words.to_vec());
+        if let Some(&l) = memo.get(&key) {
+            return l;
+        }
+        let (lo, hi) = if vars <= 6 {
+            let half = 1u32 << (vars - 1);
+            let mask = if half == 64 { !0 } else { (1u64 << half) - 1 };
+            (vec![words[0] & mask], vec![(words[0] >> half) & mask])
+        } else {
+            let h = words.len() / 2;
+            (words[..h].to_vec(), words[h..].to_vec())
+        };
+        let l = if lo == hi {
+            self.table(&lo, vars - 1, inputs, memo)
+        } else {
+            let a = self.table(&hi, vars - 1, inputs, memo);
+            let b = self.table(&lo, vars - 1, inputs, memo);
+            self.mux(inputs[vars - 1], a, b)
+        };
+        memo.insert(key, l);
+        l
+    }
+    fn expr(&mut self, e: &Expr, x: &[i32]) -> i32 {
+        match e {
+            Expr::Const(b) => self.constant(*b),
+            Expr::Var(j) => x[*j],
+            Expr::Not(a) => -self.expr(a, x),
+            Expr::And(v) => {
+                let l: Vec<i32> = v.iter().map(|a| self.expr(a, x)).collect();
+                self.and(&l)
+            }
+            Expr::Or(v) => {
+                let l: Vec<i32> = v.iter().map(|a| self.expr(a, x)).collect();
+                self.or(&l)
+            }
+            Expr::Xor(v) => {
+                let mut acc = -self.truth;
+                for a in v {
+                    let l = self.expr(a, x);
+                    acc = self.xor(acc, l);
+                }
+                acc
+            }
+        }
+    }
+}
+
+/// Builds the spec side: expected literal per free line, and constraints on the
+/// inputs (the domain of `add_mod`).
+fn expected(cnf: &mut Cnf, spec: &Spec, free: &[i32]) -> Result<(Vec<i32>, Vec<i32>), SatError> {
+    let mut domain = Vec::new();
+    let out = match &spec.body {
+        SpecBody::Function(f) => {
+            let n = f.inputs.len();
+            let x = &free[..n];
+            let mut out = x.to_vec();
+            for (k, o) in f.outputs.iter().enumerate() {
+                let v = match &o.def {
+                    OutputDef::Expr(e) => cnf.expr(e, x),
+                    OutputDef::Table(t) => {
+                        if n > SAT_MAX_TABLE_INPUTS {
+                            return Err(SatError::Unsupported(format!(
+                                "a truth table of {n} inputs is too large to encode for SAT (at most {SAT_MAX_TABLE_INPUTS})"
+                            )));
+                        }
+                        cnf.table(t.words(), n, x, &mut HashMap::new())
+                    }
+                };
+                let y = free[n + k];
+                out.push(cnf.xor(y, v));
+            }
+            out
+        }
+        SpecBody::Permutation(p) => {
+            let w = p.width();
+            if w > SAT_MAX_TABLE_INPUTS {
+                return Err(SatError::Unsupported(format!(
+                    "a permutation of {w} lines is too large to encode for SAT (at most {SAT_MAX_TABLE_INPUTS})"
+                )));
+            }
+            let mut memo = HashMap::new();
+            (0..w)
+                .map(|j| {
+                    let bit = crate::logic::TruthTable::from_fn(w, |i| (p.apply(i) >> j) & 1 == 1);
+                    cnf.table(bit.words(), w, free, &mut memo)
+                })
+                .collect()
+        }
+        SpecBody::Arithmetic(a) => arithmetic(cnf, a, free, &mut domain)?,
+    };
+    Ok((out, domain))
+}
+
+fn arithmetic(
+    cnf: &mut Cnf,
+    s: &ArithSpec,
+    free: &[i32],
+    domain: &mut Vec<i32>,
+) -> Result<Vec<i32>, SatError> {
+    let w = s.width;
+    let base = s.controlled as usize;
+    let a: Vec<i32> = free[base..base + w].to_vec();
+    let rest = &free[base + w..];
+    let k = s.constant.unwrap_or(0);
+    let n = s.modulus.unwrap_or(2);
+    let f = -cnf.truth;
+    let mut result: Vec<i32> = free.to_vec();
+    let regs = &mut result[base..];
+    match s.op {
+        ArithOp::Add => {
+            let b = &rest[..w];
+            let (sum, c) = cnf.add(&a, b, f);
+            regs[w..2 * w].copy_from_slice(&sum);
+            if s.carry_out {
+                regs[2 * w] = cnf.xor(rest[w], c);
+            }
+        }
+        ArithOp::Sub => {
+            let b = &rest[..w];
+            let na: Vec<i32> = a.iter().map(|v| -v).collect();
+            let t = cnf.truth;
+            let (diff, _) = cnf.add(b, &na, t);
+            regs[w..2 * w].copy_from_slice(&diff);
+        }
+        ArithOp::AddConst => {
+            let kb = cnf.constant_bits(k, w);
+            let (sum, _) = cnf.add(&a, &kb, f);
+            regs[..w].copy_from_slice(&sum);
+        }
+        ArithOp::LessThan => {
+            let b = &rest[..w];
+            let ge = cnf.at_least(&a, b);
+            regs[2 * w] = cnf.xor(rest[w], -ge);
+        }
+        ArithOp::LessThanConst => {
+            let kb = cnf.constant_bits(k, w);
+            let ge = cnf.at_least(&a, &kb);
+            regs[w] = cnf.xor(rest[0], -ge);
+        }
+        ArithOp::EqualConst => {
+            let kb = cnf.constant_bits(k, w);
+            let eq = cnf.equal(&a, &kb);
+            regs[w] = cnf.xor(rest[0], eq);
+        }
+        ArithOp::IncrementMod => {
+            let nb = cnf.constant_bits(n, w + 1);
+            let mut a1 = a.clone();
+            a1.push(f);
+            let below = -cnf.at_least(&a1, &nb);
+            let last = cnf.constant_bits(n - 1, w);
+            let wraps = cnf.equal(&a, &last);
+            let one = cnf.constant_bits(1, w);
+            let (inc, _) = cnf.add(&a, &one, f);
+            for i in 0..w {
+                let stepped = cnf.and(&[-wraps, inc[i]]);
+                regs[i] = cnf.mux(below, stepped, a[i]);
+            }
+        }
+        ArithOp::AddMod => {
+            let b = &rest[..w];
+            let nb = cnf.constant_bits(n, w + 1);
+            let mut a1 = a.clone();
+            a1.push(f);
+            let mut b1 = b.to_vec();
+            b1.push(f);
+            domain.push(-cnf.at_least(&a1, &nb));
+            domain.push(-cnf.at_least(&b1, &nb));
+            let (mut sum, c) = cnf.add(&a, b, f);
+            sum.push(c);
+            let ge = cnf.at_least(&sum, &nb);
+            let minus = cnf.constant_bits(n.wrapping_neg(), w + 1);
+            let mut minus = minus;
+            for (i, m) in minus.iter_mut().enumerate() {
+                if i >= 64 {
+                    *m = cnf.truth;
+                }
+            }
+            let (reduced, _) = cnf.add(&sum, &minus, f);
+            for i in 0..w {
+                regs[w + i] = cnf.mux(ge, reduced[i], sum[i]);
+            }
+        }
+        ArithOp::Lookup => {
+            if w > SAT_MAX_TABLE_INPUTS {
+                return Err(SatError::Unsupported(
+                    "lookup address too wide for SAT".into(),
+                ));
+            }
+            let mut memo = HashMap::new();
+            for j in 0..s.data_width {
+                let bit =
+                    crate::logic::TruthTable::from_fn(w, |v| (s.data[v as usize] >> j) & 1 == 1);
+                let v = cnf.table(bit.words(), w, &a, &mut memo);
+                regs[w + j] = cnf.xor(rest[j], v);
+            }
+        }
+    }
+    if s.controlled {
+        let ctrl = free[0];
+        for i in 1..free.len() {
+            result[i] = cnf.mux(ctrl, result[i], free[i]);
+        }
+    }
+    Ok(result)
+}
+
+/// Checks `circuit` against `spec` by SAT within `budget`.
+pub fn sat_equivalence(
+    circuit: &Circuit,
+    spec: &Spec,
+    budget: Duration,
+) -> Result<SatOutcome, SatError> {
+    let binding: Binding =
+        bind(circuit, &super::layout_of(spec)).map_err(|e| SatError::Binding(e.to_string()))?;
+    let mut cnf = Cnf::new(budget);
+    let free: Vec<i32> = binding.free.iter().map(|_| cnf.var()).collect();
+    let (want, domain) = expected(&mut cnf, spec, &free)?;
+    // The circuit.
+    let mut line: Vec<i32> = vec![-cnf.truth; circuit.width()];
+    for (&l, &v) in binding.free.iter().zip(&free) {
+        line[l] = v;
+    }
+    for g in circuit.gates() {
+        let controls: Vec<i32> = g
+            .controls()
+            .iter()
+            .map(|c| {
+                if c.positive {
+                    line[c.line.index()]
+                } else {
+                    -line[c.line.index()]
+                }
+            })
+            .collect();
+        let fire = cnf.and(&controls);
+        let t = g.target().index();
+        line[t] = cnf.xor(line[t], fire);
+    }
+    let mut diffs: Vec<i32> = binding
+        .free
+        .iter()
+        .zip(&want)
+        .map(|(&l, &e)| cnf.xor(line[l], e))
+        .collect();
+    diffs.extend(binding.ancillae.iter().map(|&a| line[a]));
+    let miter = cnf.or(&diffs);
+    cnf.s.add_clause([miter]);
+    for d in domain {
+        cnf.s.add_clause([d]);
+    }
+    match cnf.s.solve() {
+        None => Ok(SatOutcome::Timeout),
+        Some(false) => Ok(SatOutcome::Equivalent),
+        Some(true) => {
+            let input: Vec<bool> = free
+                .iter()
+                .map(|&v| cnf.s.value(v).unwrap_or(false))
+                .collect();
+            confirm(circuit, spec, &binding, &input)
+        }
+    }
+}
+
+/// Simulates the circuit on the solver's input and checks, with plain bit
+/// arithmetic, that it really disagrees with the spec.
+fn confirm(
+    circuit: &Circuit,
+    spec: &Spec,
+    b: &Binding,
+    input: &[bool],
+) -> Result<SatOutcome, SatError> {
+    let mut v = vec![false; circuit.width()];
+    for (&l, &x) in b.free.iter().zip(input) {
+        v[l] = x;
+    }
+    let before = v.clone();
+    for g in circuit.gates() {
+        if g.controls().iter().all(|c| v[c.line.index()] == c.positive) {
+            let t = g.target().index();
+            v[t] = !v[t];
+        }
+    }
+    let free_in: Vec<bool> = b.free.iter().map(|&l| before[l]).collect();
+    let want = reference_bits(spec, &free_in);
+    let mut want_lines = vec![false; circuit.width()];
+    if let Some(w) = &want {
+        for (k, &l) in b.free.iter().enumerate() {
+            want_lines[l] = w[k];
+        }
+    }
+    let show = |vals: &[bool]| -> Vec<RegisterValue> {
+        b.registers
+            .iter()
+            .map(|(name, lines)| {
+                let bits: Vec<bool> = lines.iter().map(|&l| vals[l]).collect();
+                RegisterValue::new(name, &bits)
+            })
+            .collect()
+    };
+    let mut problem = None;
+    if let Some(want) = want {
+        for (k, &l) in b.free.iter().enumerate() {
+            if v[l] != want[k] {
+                let info = &circuit.lines()[l];
+                problem = Some(format!(
+                    "{}[{}] is {}, expected {}: line differs from the spec",
+                    info.register, info.index, v[l] as u8, want[k] as u8
+                ));
+                break;
+            }
+        }
+    }
+    if problem.is_none() {
+        if let Some(&a) = b.ancillae.iter().find(|&&a| v[a]) {
+            let info = &circuit.lines()[a];
+            problem = Some(format!(
+                "{}[{}] is 1: ancilla is not returned to 0",
+                info.register, info.index
+            ));
+        }
+    }
+    match problem {
+        Some(problem) => Ok(SatOutcome::Counterexample(Counterexample {
+            state: (free_in.len() <= 64).then(|| {
+                free_in
+                    .iter()
+                    .enumerate()
+                    .fold(0u64, |s, (i, &x)| s | (x as u64) << i)
+            }),
+            input: show(&before)
+                .into_iter()
+                .filter(|r| r.register != "anc")
+                .collect(),
+            expected: show(&want_lines),
+            actual: show(&v),
+            problem,
+        })),
+        None => Err(SatError::Unconfirmed(
+            "simulation matches the spec on the solver's input".into(),
+        )),
+    }
+}
+
+fn bits_to_u64(bits: &[bool]) -> Option<u64> {
+    (bits.len() <= 64).then(|| {
+        bits.iter()
+            .enumerate()
+            .fold(0, |v, (i, &b)| v | (b as u64) << i)
+    })
+}
+
+/// Ripple addition of little-endian bit vectors, with carry in; returns the sum
+/// (same width) and the carry out.
+fn add_bits(x: &[bool], y: &[bool], mut c: bool) -> (Vec<bool>, bool) {
+    let mut s = Vec::with_capacity(x.len());
+    for (&a, &b) in x.iter().zip(y) {
+        s.push(a ^ b ^ c);
+        c = (a && b) || (c && (a ^ b));
+    }
+    (s, c)
+}
+
+fn const_bits(k: u64, w: usize) -> Vec<bool> {
+    (0..w).map(|i| i < 64 && (k >> i) & 1 == 1).collect()
+}
+
+/// The spec's expected value of every free line, by plain bit arithmetic;
+/// `None` outside the op's domain.
+fn reference_bits(spec: &Spec, free: &[bool]) -> Option<Vec<bool>> {
+    match &spec.body {
+        SpecBody::Function(f) => {
+            let n = f.inputs.len();
+            let x = bits_to_u64(&free[..n])?;
+            let mut out = free.to_vec();
+            for (k, o) in f.outputs.iter().enumerate() {
+                let v = match &o.def {
+                    OutputDef::Expr(e) => e.eval(x),
+                    OutputDef::Table(t) => t.get(x as usize),
+                };
+                out[n + k] ^= v;
+            }
+            Some(out)
+        }
+        SpecBody::Permutation(p) => {
+            let x = bits_to_u64(free)?;
+            let img = p.apply(x);
+            Some((0..free.len()).map(|j| (img >> j) & 1 == 1).collect())
+        }
+        SpecBody::Arithmetic(s) => {
+            let w = s.width;
+            let base = s.controlled as usize;
+            if s.controlled && !free[0] {
+                if s.op == ArithOp::AddMod {
+                    let n = const_bits(s.modulus.unwrap_or(2), w + 1);
+                    let a: Vec<bool> = free[1..1 + w].iter().copied().chain([false]).collect();
+                    let b: Vec<bool> = free[1 + w..1 + 2 * w]
+                        .iter()
+                        .copied()
+                        .chain([false])
+                        .collect();
+                    let ge =
+                        |x: &[bool]| add_bits(x, &n.iter().map(|v| !v).collect::<Vec<_>>(), true).1;
+                    if ge(&a) || ge(&b) {
+                        return None;
+                    }
+                }
+                return Some(free.to_vec());
+            }
+            let mut out = free.to_vec();
+            let a = free[base..base + w].to_vec();
+            let rest = &free[base + w..];
+            let k = s.constant.unwrap_or(0);
+            let ge = |x: &[bool], y: &[bool]| {
+                add_bits(x, &y.iter().map(|v| !v).collect::<Vec<_>>(), true).1
+            };
+            match s.op {
+                ArithOp::Add => {
+                    let (sum, c) = add_bits(&a, &rest[..w], false);
+                    out[base + w..base + 2 * w].copy_from_slice(&sum);
+                    if s.carry_out {
+                        out[base + 2 * w] ^= c;
+                    }
+                }
+                ArithOp::Sub => {
+                    let na: Vec<bool> = a.iter().map(|v| !v).collect();
+                    let (d, _) = add_bits(&rest[..w], &na, true);
+                    out[base + w..base + 2 * w].copy_from_slice(&d);
+                }
+                ArithOp::AddConst => {
+                    let (sum, _) = add_bits(&a, &const_bits(k, w), false);
+                    out[base..base + w].copy_from_slice(&sum);
+                }
+                ArithOp::LessThan => out[base + 2 * w] ^= !ge(&a, &rest[..w]),
+                ArithOp::LessThanConst => out[base + w] ^= !ge(&a, &const_bits(k, w)),
+                ArithOp::EqualConst => out[base + w] ^= a == const_bits(k, w),
+                ArithOp::IncrementMod => {
+                    let n = s.modulus.unwrap_or(2);
+                    let a1: Vec<bool> = a.iter().copied().chain([false]).collect();
+                    if !ge(&a1, &const_bits(n, w + 1)) {
+                        let next = if a == const_bits(n - 1, w) {
+                            vec![false; w]
+                        } else {
+                            add_bits(&a, &const_bits(1, w), false).0
+                        };
+                        out[base..base + w].copy_from_slice(&next);
+                    }
+                }
+                ArithOp::AddMod => {
+                    let n = const_bits(s.modulus.unwrap_or(2), w + 1);
+                    let a1: Vec<bool> = a.iter().copied().chain([false]).collect();
+                    let b1: Vec<bool> = rest[..w].iter().copied().chain([false]).collect();
+                    if ge(&a1, &n) || ge(&b1, &n) {
+                        return None;
+                    }
+                    let (mut sum, c) = add_bits(&a, &rest[..w], false);
+                    sum.push(c);
+                    if ge(&sum, &n) {
+                        let nn: Vec<bool> = n.iter().map(|v| !v).collect();
+                        sum = add_bits(&sum, &nn, true).0;
+                    }
+                    out[base + w..base + 2 * w].copy_from_slice(&sum[..w]);
+                }
+                ArithOp::Lookup => {
+                    let addr = bits_to_u64(&a)? as usize;
+                    let word = s.data[addr];
+                    for j in 0..s.data_width {
+                        out[base + w + j] ^= (word >> j) & 1 == 1;
+                    }
+                }
+            }
+            Some(out)
+        }
+    }
+}
