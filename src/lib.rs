@@ -36,25 +36,26 @@ mod verify;
 pub use circuit::{Circuit, Control, Cost, Gate, Line, LineInfo, LineOutOfRange, Role};
 pub use export::{listing, read_qasm, write_qasm, QasmHeader, WriteError};
 pub use logic::{
-    parse_expr, third, Cube, Esop, Expr, ExprError, Literal, Permutation, PermutationError,
-    TableError, TruthTable, MAX_PERMUTATION_WIDTH, MAX_TABLE_VARS,
+    parse_expr, third, Cube, Esop, Expr, ExprError, Lit, Literal, Network, Node, Permutation,
+    PermutationError, TableError, TruthTable, MAX_PERMUTATION_WIDTH, MAX_TABLE_VARS,
 };
 pub use lower::{lower, ANCILLA_REGISTER};
 pub use mutate::{mutants, Fault};
 pub use opt::{cancel_pairs, CANCEL_WINDOW};
 pub use pipeline::{
-    build, build_one, build_with_progress, compare, BuildError, BuildOptions, Outcome, Report,
-    Timings, Verification,
+    build, build_one, build_with_progress, compare, tradeoff, BuildError, BuildOptions, Outcome,
+    Report, Timings, Verification,
 };
 pub use spec::{
-    parse_spec, ArithOp, ArithSpec, FunctionSpec, LocatedError, Location, Output, OutputDef,
-    Source, Spec, SpecBody, MAX_ARITH_WIDTH,
+    parse_spec, ArithOp, ArithSpec, FunctionSpec, LocatedError, Location, OracleForm, Output,
+    OutputDef, Source, Spec, SpecBody, MAX_ARITH_WIDTH,
 };
 pub use synth::{
-    arith_lines, arithmetic, candidates, esop_circuit, esop_of, exact_esop, exorlink_minimize,
-    function_lines, minimize_tables, permutation_lines, reed_muller, reed_muller_coefficients,
-    synthesize, transform, EsopTable, ExactEsop, Method, Registers, SynthError, SynthLimits,
-    Synthesis, EXACT_ESOP_MAX_INPUTS, EXORLINK_MAX_TERMS, EXORLINK_WORK,
+    arith_lines, arithmetic, bennett, bennett_counts, candidates, esop_circuit, esop_of,
+    exact_esop, exorlink_minimize, function_lines, hierarchical, minimize_tables, network_of,
+    permutation_lines, reed_muller, reed_muller_coefficients, synthesize, transform, EsopTable,
+    ExactEsop, Method, Registers, SynthError, SynthLimits, Synthesis, EXACT_ESOP_MAX_INPUTS,
+    EXORLINK_MAX_TERMS, EXORLINK_WORK, PIECE_INPUTS,
 };
 pub use verify::{
     fingerprint, free_lines, merge_shards, sat_equivalence, verify, verify_shard,

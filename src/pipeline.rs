@@ -3,7 +3,9 @@
 use crate::circuit::{Circuit, Cost};
 use crate::export::{write_qasm, QasmHeader, WriteError};
 use crate::lower::lower;
-use crate::synth::{candidates, synthesize, Method, SynthError, SynthLimits};
+use crate::spec::OracleForm;
+use crate::spec::SpecBody;
+use crate::synth::{candidates, network_of, synthesize, Method, SynthError, SynthLimits};
 use crate::verify::{verify_with_progress, Verdict, VerifyError, VerifyOptions};
 use crate::Spec;
 use serde::Serialize;
@@ -70,6 +72,8 @@ pub struct Outcome {
     pub timings: Timings,
     /// What the method or the choice of method wants the user to know.
     pub notes: Vec<String>,
+    /// The oracle form to export.
+    pub form: OracleForm,
 }
 
 /// Why a build stopped before a verdict.
@@ -87,7 +91,9 @@ impl BuildError {
     /// True when a resource limit, not the input, stopped the job.
     pub fn is_limit(&self) -> bool {
         match self {
-            BuildError::Synth(e) => matches!(e, SynthError::Limit { .. }),
+            BuildError::Synth(e) => {
+                matches!(e, SynthError::Limit { .. } | SynthError::Budget { .. })
+            }
             BuildError::Verify(e) => e.is_limit(),
         }
     }
@@ -116,7 +122,7 @@ pub fn build_with_progress(
         .into_iter()
         .map(|m| (m, build_one(spec, m, opts, progress)))
         .collect();
-    pick_best(tried)
+    pick_best(tried, opts.limits.max_qubits)
 }
 
 /// Runs every method that applies (the slow ones too), each verified when
@@ -128,15 +134,60 @@ pub fn compare(spec: &Spec, opts: &BuildOptions) -> Vec<(Method, Result<Outcome,
         .collect()
 }
 
-fn rank(o: &Outcome) -> (u8, usize, usize, usize) {
+/// Bennett's qubit/Toffoli trade-off for a function spec: plain Bennett, then
+/// one qubit fewer at a time until no schedule fits (or a network too large to
+/// schedule, past 200 nodes, stops it). Each point is verified as `opts` says.
+pub fn tradeoff(spec: &Spec, opts: &BuildOptions) -> Vec<Outcome> {
+    let SpecBody::Function(f) = &spec.body else {
+        return Vec::new();
+    };
+    let Ok(net) = network_of(f) else {
+        return Vec::new();
+    };
+    if net.gates() > 200 {
+        return Vec::new();
+    }
+    let mut points = Vec::new();
+    let mut o = *opts;
+    o.limits.max_qubits = None;
+    let Ok(plain) = build_one(spec, Method::Bennett, &o, &|_, _| {}) else {
+        return points;
+    };
+    let mut q = plain.cost.qubits;
+    points.push(plain);
+    while q > 1 {
+        q -= 1;
+        o.limits.max_qubits = Some(q);
+        match build_one(spec, Method::Bennett, &o, &|_, _| {}) {
+            Ok(p) => {
+                q = p.cost.qubits;
+                points.push(p);
+            }
+            Err(_) => break,
+        }
+    }
+    points
+}
+
+fn rank(o: &Outcome, max_qubits: Option<usize>) -> (u8, u8, usize, usize, usize) {
     let verdict = match &o.verification {
         Verification::Ran(Verdict::Proven { .. }) | Verification::Skipped { .. } => 0,
         Verification::Ran(Verdict::Refuted { .. }) => 1,
     };
-    (verdict, o.cost.toffoli, o.cost.qubits, o.cost.mct_total())
+    let over = max_qubits.is_some_and(|q| o.cost.qubits > q) as u8;
+    (
+        over,
+        verdict,
+        o.cost.toffoli,
+        o.cost.qubits,
+        o.cost.mct_total(),
+    )
 }
 
-fn pick_best(tried: Vec<(Method, Result<Outcome, BuildError>)>) -> Result<Outcome, BuildError> {
+fn pick_best(
+    tried: Vec<(Method, Result<Outcome, BuildError>)>,
+    max_qubits: Option<usize>,
+) -> Result<Outcome, BuildError> {
     let summary: Vec<String> = tried
         .iter()
         .map(|(m, r)| match r {
@@ -149,13 +200,24 @@ fn pick_best(tried: Vec<(Method, Result<Outcome, BuildError>)>) -> Result<Outcom
     for (_, r) in tried {
         match r {
             Ok(o) => {
-                if best.as_ref().is_none_or(|b| rank(&o) < rank(b)) {
+                if best
+                    .as_ref()
+                    .is_none_or(|b| rank(&o, max_qubits) < rank(b, max_qubits))
+                {
                     best = Some(o);
                 }
             }
             Err(e) => {
                 first_error.get_or_insert(e);
             }
+        }
+    }
+    if let (Some(q), Some(o)) = (max_qubits, &best) {
+        if o.cost.qubits > q {
+            return Err(first_error.unwrap_or(BuildError::Synth(SynthError::Budget {
+                budget: q,
+                needed: o.cost.qubits,
+            })));
         }
     }
     match best {
@@ -203,6 +265,7 @@ pub fn build_one(
             verify: (t3 - t2).as_secs_f64(),
         },
         notes: synthesis.notes,
+        form: spec.form,
     })
 }
 
@@ -244,6 +307,9 @@ impl Outcome {
                 name: self.name.clone(),
                 method: Some(self.method.name().to_string()),
                 cost: Some(self.cost.clone()),
+                phase: (self.form == OracleForm::Phase)
+                    .then(|| self.lowered.register("y").first().copied())
+                    .flatten(),
             },
         )
     }

@@ -57,7 +57,7 @@ proptest! {
     #[test]
     fn every_function_method_is_proven(f in arb_function(10, 4)) {
         let toml = f.to_toml();
-        for m in [Method::ReedMuller, Method::Esop] {
+        for m in [Method::ReedMuller, Method::Esop, Method::Bennett, Method::Hierarchical] {
             let out = built_with(&toml, m);
             prop_assert!(out.verification.is_proven(), "{}: {:?}", m, out.verification);
         }

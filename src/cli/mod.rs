@@ -148,6 +148,9 @@ struct LimitArgs {
     /// Seconds the SAT solver may take.
     #[arg(long, default_value_t = DEFAULT_SAT_SECONDS)]
     sat_seconds: f64,
+    /// Most qubits the circuit may use, ancillae included; bennett recomputes to fit.
+    #[arg(long)]
+    max_qubits: Option<usize>,
 }
 
 fn route(name: &str) -> Result<Route, Failure> {
@@ -166,6 +169,7 @@ impl LimitArgs {
                 max_table_inputs: self.max_inputs,
                 max_gates: self.max_gates,
                 exact_seconds: self.exact_seconds,
+                max_qubits: self.max_qubits,
             },
             verify: verify.then_some(VerifyOptions {
                 max_states: self.max_states,
@@ -440,6 +444,7 @@ fn compare_methods(spec_path: &Path, json: bool, limits: &LimitArgs) -> Result<i
         .filter(|(_, o)| o.verification.is_proven())
         .min_by_key(|(_, o)| (o.cost.toffoli, o.cost.qubits, o.cost.mct_total()))
         .map(|(m, _)| *m);
+    let curve = oraculum::tradeoff(&spec, &opts);
     let refuted = rows.iter().any(|(_, r)| {
         matches!(r, Ok(o) if matches!(o.verification, oraculum::Verification::Ran(Verdict::Refuted { .. })))
     });
@@ -456,6 +461,11 @@ fn compare_methods(spec_path: &Path, json: bool, limits: &LimitArgs) -> Result<i
             "name": spec.name,
             "methods": list,
             "best": best.map(|m| m.name()),
+            "tradeoff": curve.iter().map(|o| json!({
+                "qubits": o.cost.qubits,
+                "toffoli": o.cost.toffoli,
+                "verified": o.verification.is_proven(),
+            })).collect::<Vec<_>>(),
         });
         println!("{}", serde_json::to_string_pretty(&v).unwrap_or_default());
     } else {
@@ -493,6 +503,20 @@ fn compare_methods(spec_path: &Path, json: bool, limits: &LimitArgs) -> Result<i
             println!(
                 "* fewest Toffolis among verified circuits: {m} (synth --method {m} writes it)"
             );
+        }
+        if curve.len() > 1 {
+            println!("\nqubits against Toffolis, bennett with --max-qubits:");
+            for o in &curve {
+                let v = if o.verification.is_proven() {
+                    "verified"
+                } else {
+                    "NOT verified"
+                };
+                println!(
+                    "  {:>5} qubits  {:>6} toffoli  {v}",
+                    o.cost.qubits, o.cost.toffoli
+                );
+            }
         }
     }
     Ok(if refuted { code::REFUTED } else { code::DONE })

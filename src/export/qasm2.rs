@@ -13,6 +13,8 @@ pub struct QasmHeader {
     pub method: Option<String>,
     /// The cost report.
     pub cost: Option<Cost>,
+    /// For a phase oracle: the output line, prepared in |-> and restored.
+    pub phase: Option<Line>,
 }
 
 /// A circuit that OpenQASM 2 with `qelib1.inc` cannot express as is.
@@ -53,6 +55,14 @@ pub fn write_qasm(c: &Circuit, header: &QasmHeader) -> Result<String, WriteError
             cost.qubits, cost.toffoli, cost.cnot, cost.not, cost.depth, cost.toffoli_depth, cost.t_count
         );
     }
+    if let Some(p) = header.phase {
+        let l = &c.lines()[p.index()];
+        let _ = writeln!(
+            s,
+            "// phase oracle: {}[{}] is prepared in |-> (x, h) and restored, so the gates between apply (-1)^f(x)",
+            l.register, l.index
+        );
+    }
     s.push_str("// lines:\n");
     for l in c.lines() {
         let label = if l.label.is_empty() || l.role == Role::Ancilla {
@@ -81,6 +91,9 @@ pub fn write_qasm(c: &Circuit, header: &QasmHeader) -> Result<String, WriteError
         let info = &c.lines()[l.index()];
         format!("{}[{}]", info.register, info.index)
     };
+    if let Some(p) = header.phase {
+        let _ = writeln!(s, "x {};\nh {};", q(p), q(p));
+    }
     for (k, g) in c.gates().iter().enumerate() {
         if g.controls().iter().any(|c| !c.positive) {
             return Err(WriteError::NotLowered(k));
@@ -93,6 +106,9 @@ pub fn write_qasm(c: &Circuit, header: &QasmHeader) -> Result<String, WriteError
             2 => writeln!(s, "ccx {},{},{t};", ctl[0], ctl[1]),
             _ => return Err(WriteError::NotLowered(k)),
         };
+    }
+    if let Some(p) = header.phase {
+        let _ = writeln!(s, "h {};\nx {};", q(p), q(p));
     }
     Ok(s)
 }
@@ -143,6 +159,8 @@ pub fn read_qasm(path: &str, text: &str) -> Result<Circuit, LocatedError> {
     let mut regs: Vec<Reg> = Vec::new();
     let mut lines: Vec<LineInfo> = Vec::new();
     let mut gates: Vec<Gate> = Vec::new();
+    // Positions (in `gates`) and lines of `h` statements, with their offsets.
+    let mut hadamards: Vec<(usize, u32, usize)> = Vec::new();
     let mut seen_version = false;
     let mut start = 0usize;
     while start < clean.len() {
@@ -211,6 +229,13 @@ pub fn read_qasm(path: &str, text: &str) -> Result<Circuit, LocatedError> {
                 regs.push(Reg { name, first, size });
             }
             "barrier" | "measure" => {}
+            "h" => {
+                let ops = parse_operands(&src, &regs, rest, rest_at)?;
+                match ops.as_slice() {
+                    [(line, None)] => hadamards.push((gates.len(), *line, at)),
+                    _ => return Err(src.error(rest_at, "'h' is read on one qubit")),
+                }
+            }
             "x" | "cx" | "CX" | "ccx" => {
                 let arity = match word {
                     "x" => 1,
@@ -252,12 +277,30 @@ pub fn read_qasm(path: &str, text: &str) -> Result<Circuit, LocatedError> {
             other => {
                 return Err(src
                     .error(at, format!("'{other}' is not read by oraculum"))
-                    .with_hint("oraculum reads qreg, creg, x, cx, CX, ccx, barrier and measure"));
+                    .with_hint("oraculum reads qreg, creg, x, cx, CX, ccx, barrier and measure, and h around a phase oracle"));
             }
         }
     }
     if !seen_version {
         return Err(src.error(0, "an OpenQASM 2 file starts with 'OPENQASM 2.0;'"));
+    }
+    if let Some(&(_, _, at)) = hadamards.first() {
+        // Only the wrapper of a phase oracle: x q; h q; ... h q; x q;
+        let wrapped = match hadamards.as_slice() {
+            [(1, q, _), (k, q2, _)] => {
+                *q == *q2
+                    && *k + 1 == gates.len()
+                    && gates[0] == Gate::not(*q)
+                    && gates[gates.len() - 1] == Gate::not(*q)
+            }
+            _ => false,
+        };
+        if !wrapped {
+            return Err(src
+                .error(at, "'h' is read only as the wrapper of a phase oracle")
+                .with_hint("x q; h q; at the start and h q; x q; at the end, on the same qubit"));
+        }
+        gates = gates[1..gates.len() - 1].to_vec();
     }
     Ok(Circuit::from_parts(lines, gates)
         .expect("operands were resolved against declared registers"))

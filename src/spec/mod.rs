@@ -17,6 +17,19 @@ pub struct Spec {
     pub name: Option<String>,
     /// What to build.
     pub body: SpecBody,
+    /// `[oracle] form`.
+    pub form: OracleForm,
+}
+
+/// How the oracle acts on its output.
+#[derive(Clone, Copy, Debug, Default, PartialEq, Eq)]
+pub enum OracleForm {
+    /// `|x>|y> -> |x>|y XOR f(x)>`.
+    #[default]
+    Xor,
+    /// `|x> -> (-1)^f(x) |x>`, one output, with the output qubit prepared in
+    /// the minus state and restored.
+    Phase,
 }
 
 /// The three kinds of spec.
@@ -138,6 +151,32 @@ pub struct ArithSpec {
     pub data_width: usize,
 }
 
+/// Most nodes an expression may have once `[let]` definitions are substituted.
+pub const MAX_EXPR_NODES: usize = 1_000_000;
+
+const TOO_LARGE: &str =
+    "with its definitions substituted this expression has more than 1,000,000 nodes";
+
+/// Replaces `Var(j)` for `j >= n` by definition `j - n`.
+fn substitute(e: &Expr, n: usize, lets: &[Expr]) -> Expr {
+    match e {
+        Expr::Var(j) if *j >= n => lets[j - n].clone(),
+        Expr::Not(a) => Expr::Not(Box::new(substitute(a, n, lets))),
+        Expr::And(v) => Expr::And(v.iter().map(|a| substitute(a, n, lets)).collect()),
+        Expr::Or(v) => Expr::Or(v.iter().map(|a| substitute(a, n, lets)).collect()),
+        Expr::Xor(v) => Expr::Xor(v.iter().map(|a| substitute(a, n, lets)).collect()),
+        other => other.clone(),
+    }
+}
+
+fn expr_size(e: &Expr) -> usize {
+    match e {
+        Expr::Not(a) => 1 + expr_size(a),
+        Expr::And(v) | Expr::Or(v) | Expr::Xor(v) => 1 + v.iter().map(expr_size).sum::<usize>(),
+        _ => 1,
+    }
+}
+
 /// Widest arithmetic register accepted.
 pub const MAX_ARITH_WIDTH: usize = 1 << 16;
 
@@ -150,6 +189,8 @@ struct RawSpec {
     outputs: Option<Spanned<Vec<Spanned<String>>>>,
     table: Option<Spanned<BTreeMap<Spanned<String>, Spanned<String>>>>,
     expr: Option<Spanned<BTreeMap<Spanned<String>, Spanned<String>>>>,
+    #[serde(rename = "let")]
+    lets: Option<Spanned<BTreeMap<Spanned<String>, Spanned<String>>>>,
     width: Option<Spanned<i64>>,
     images: Option<Spanned<Vec<Spanned<i64>>>>,
     op: Option<Spanned<String>>,
@@ -215,21 +256,33 @@ impl Validator<'_> {
 
     fn spec(&self, raw: RawSpec) -> Result<Spec, LocatedError> {
         let name = raw.name.as_ref().map(|n| n.get_ref().clone());
+        let mut form = OracleForm::Xor;
         if let Some(o) = &raw.oracle {
-            if let Some(form) = &o.get_ref().form {
-                if form.get_ref() != "xor" {
-                    return Err(self
-                        .err(
-                            &form.span(),
-                            format!("unknown oracle form '{}'", form.get_ref()),
-                        )
-                        .with_hint("this version builds form = \"xor\""));
-                }
+            if let Some(f) = &o.get_ref().form {
+                form = match f.get_ref().as_str() {
+                    "xor" => OracleForm::Xor,
+                    "phase" => {
+                        let one_output = raw.kind.get_ref() == "function"
+                            && raw.outputs.as_ref().is_some_and(|o| o.get_ref().len() == 1);
+                        if !one_output {
+                            return Err(self.err(
+                                &f.span(),
+                                "a phase oracle is a function spec with exactly one output",
+                            ));
+                        }
+                        OracleForm::Phase
+                    }
+                    other => {
+                        return Err(self
+                            .err(&f.span(), format!("unknown oracle form '{other}'"))
+                            .with_hint("form is xor or phase"))
+                    }
+                };
             }
         }
         let kind = raw.kind.get_ref().as_str();
         let allowed: &[&str] = match kind {
-            "function" => &["inputs", "outputs", "table", "expr"],
+            "function" => &["inputs", "outputs", "table", "expr", "let"],
             "permutation" => &["width", "images"],
             "arithmetic" => &[
                 "op",
@@ -247,7 +300,8 @@ impl Validator<'_> {
                     .with_hint("kind is one of function, permutation, arithmetic"))
             }
         };
-        let present: [(&str, Option<Range<usize>>); 14] = [
+        let present: [(&str, Option<Range<usize>>); 15] = [
+            ("let", raw.lets.as_ref().map(|v| v.span())),
             ("inputs", raw.inputs.as_ref().map(|v| v.span())),
             ("outputs", raw.outputs.as_ref().map(|v| v.span())),
             ("table", raw.table.as_ref().map(|v| v.span())),
@@ -278,7 +332,7 @@ impl Validator<'_> {
             "permutation" => SpecBody::Permutation(self.permutation(&raw)?),
             _ => SpecBody::Arithmetic(self.arithmetic(&raw)?),
         };
-        Ok(Spec { name, body })
+        Ok(Spec { name, body, form })
     }
 
     fn names(
@@ -324,6 +378,7 @@ impl Validator<'_> {
             .map(|o| o.get_ref().iter().map(|n| n.span()).collect())
             .unwrap_or_default();
         let n = inputs.len();
+        let (all_names, lets) = self.lets(raw, &inputs, &mut taken)?;
         let mut defs: Vec<Option<OutputDef>> = vec![None; output_names.len()];
         let mut sources: Vec<Option<&str>> = vec![None; output_names.len()];
         let sections = [("table", &raw.table), ("expr", &raw.expr)];
@@ -368,10 +423,13 @@ impl Validator<'_> {
                             .map_err(|e| self.src.error(at(e.offset), e.message))?,
                     )
                 } else {
-                    OutputDef::Expr(
-                        parse_expr(text, &inputs)
-                            .map_err(|e| self.src.error(at(e.offset), e.message))?,
-                    )
+                    let e = parse_expr(text, &all_names)
+                        .map_err(|e| self.src.error(at(e.offset), e.message))?;
+                    let e = substitute(&e, n, &lets);
+                    if expr_size(&e) > MAX_EXPR_NODES {
+                        return Err(self.err(&span, TOO_LARGE));
+                    }
+                    OutputDef::Expr(e)
                 });
             }
         }
@@ -399,6 +457,98 @@ impl Validator<'_> {
                 )
             }),
         }
+    }
+
+    /// Parses `[let]`: named definitions over the inputs and each other, in any
+    /// order, without cycles. Returns the names expressions may use (inputs,
+    /// then definitions) and each definition with the others substituted.
+    fn lets(
+        &self,
+        raw: &RawSpec,
+        inputs: &[String],
+        taken: &mut Vec<String>,
+    ) -> Result<(Vec<String>, Vec<Expr>), LocatedError> {
+        let n = inputs.len();
+        let mut all = inputs.to_vec();
+        let Some(map) = &raw.lets else {
+            return Ok((all, Vec::new()));
+        };
+        let entries: Vec<(&Spanned<String>, &Spanned<String>)> = map.get_ref().iter().collect();
+        for (key, _) in &entries {
+            let name = key.get_ref();
+            if !is_identifier(name) {
+                return Err(self.err(&key.span(), format!("'{name}' is not a usable name")));
+            }
+            if taken.contains(name) {
+                return Err(self.err(&key.span(), format!("the name '{name}' is used twice")));
+            }
+            taken.push(name.clone());
+            all.push(name.clone());
+        }
+        let mut parsed = Vec::new();
+        for (_, value) in &entries {
+            let text = value.get_ref();
+            let span = value.span();
+            let e = parse_expr(text, &all).map_err(|e| {
+                self.src
+                    .error(self.src.offset_in_string(&span, text, e.offset), e.message)
+            })?;
+            parsed.push(e);
+        }
+        // Depth-first resolution; 1 = in progress, 2 = done.
+        let k = entries.len();
+        let mut state = vec![0u8; k];
+        // Placeholders until resolved; a definition is substituted only after
+        // everything it depends on.
+        let mut resolved: Vec<Expr> = vec![Expr::Const(false); k];
+        fn deps(e: &Expr, n: usize, out: &mut Vec<usize>) {
+            match e {
+                Expr::Var(j) if *j >= n => out.push(j - n),
+                Expr::Not(a) => deps(a, n, out),
+                Expr::And(v) | Expr::Or(v) | Expr::Xor(v) => v.iter().for_each(|a| deps(a, n, out)),
+                _ => {}
+            }
+        }
+        for start in 0..k {
+            let mut stack = vec![(start, false)];
+            while let Some((i, expanded)) = stack.pop() {
+                if expanded {
+                    let e = substitute(&parsed[i], n, &resolved);
+                    if expr_size(&e) > MAX_EXPR_NODES {
+                        return Err(self.err(&entries[i].1.span(), TOO_LARGE));
+                    }
+                    resolved[i] = e;
+                    state[i] = 2;
+                    continue;
+                }
+                match state[i] {
+                    2 => continue,
+                    1 => {
+                        return Err(self.err(
+                            &entries[i].0.span(),
+                            format!("definition '{}' depends on itself", entries[i].0.get_ref()),
+                        ))
+                    }
+                    _ => {}
+                }
+                state[i] = 1;
+                stack.push((i, true));
+                let mut d = Vec::new();
+                deps(&parsed[i], n, &mut d);
+                for j in d {
+                    if state[j] == 1 {
+                        return Err(self.err(
+                            &entries[j].0.span(),
+                            format!("definition '{}' depends on itself", entries[j].0.get_ref()),
+                        ));
+                    }
+                    if state[j] == 0 {
+                        stack.push((j, false));
+                    }
+                }
+            }
+        }
+        Ok((all, resolved))
     }
 
     fn nonneg(&self, v: &Spanned<i64>, key: &str) -> Result<u64, LocatedError> {
@@ -653,6 +803,37 @@ fan = "hot & !night | humid ^ hot"
         assert_eq!(at(&e), (4, 12), "{e}");
         let e = err("kind = \"arithmetic\"\nop = \"add_const\"\nwidth = 8\nconstant = 300\n");
         assert!(e.message.contains("does not fit"), "{e}");
+    }
+
+    #[test]
+    fn definitions_resolve_in_any_order_and_cycles_are_refused() {
+        let s = parse_spec(
+            "t.toml",
+            "kind = \"function\"\ninputs = [\"a\", \"b\", \"c\"]\noutputs = [\"f\"]\n[let]\nz = \"y & c\"\ny = \"a ^ b\"\n[expr]\nf = \"z | !y\"\n",
+        )
+        .unwrap();
+        let SpecBody::Function(f) = s.body else {
+            panic!()
+        };
+        let t = f.table(0).unwrap();
+        for x in 0..8 {
+            let (a, b, c) = (x & 1 == 1, x & 2 == 2, x & 4 == 4);
+            assert_eq!(t.get(x), !(a ^ b) || c);
+        }
+        let e = err("kind = \"function\"\ninputs = [\"a\"]\noutputs = [\"f\"]\n[let]\np = \"q & a\"\nq = \"p\"\n[expr]\nf = \"p\"\n");
+        assert!(e.message.contains("depends on itself"), "{e}");
+        assert_eq!(e.location.line, 5);
+        let e = err("kind = \"function\"\ninputs = [\"a\"]\noutputs = [\"f\"]\n[let]\na = \"1\"\n[expr]\nf = \"a\"\n");
+        assert!(e.message.contains("twice"), "{e}");
+        // Doubling definitions: 2^25 nodes after substitution is refused, not built.
+        let mut text = String::from(
+            "kind = \"function\"\ninputs = [\"a\"]\noutputs = [\"f\"]\n[let]\nd0 = \"a\"\n",
+        );
+        for i in 1..26 {
+            text.push_str(&format!("d{i} = \"d{} ^ d{}\"\n", i - 1, i - 1));
+        }
+        text.push_str("[expr]\nf = \"d25\"\n");
+        assert!(err(&text).message.contains("1,000,000"));
     }
 
     #[test]

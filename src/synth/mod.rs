@@ -1,12 +1,14 @@
 //! Synthesis methods, one file each, and the choice between them.
 
 mod arith;
+mod bennett;
 mod esop;
 mod esop_exact;
 mod reed_muller;
 mod transform;
 
 pub use arith::{arith_lines, arithmetic, Registers};
+pub use bennett::{bennett, bennett_counts, hierarchical, network_of, PIECE_INPUTS};
 pub use esop::{
     esop_circuit, esop_of, exorlink_minimize, minimize_tables, EXORLINK_MAX_TERMS, EXORLINK_WORK,
 };
@@ -34,11 +36,15 @@ pub enum Method {
     Esop,
     /// Minimum ESOP (at most 5 inputs), one gate per cube and output.
     EsopExact,
+    /// Logic network computed into ancillae, copied out, uncomputed.
+    Bennett,
+    /// Network cut into small pieces, each from its minimum ESOP, glued by Bennett.
+    Hierarchical,
 }
 
 impl Method {
     /// Every method with its name and what it takes.
-    pub const ALL: [(Method, &'static str, &'static str); 6] = [
+    pub const ALL: [(Method, &'static str, &'static str); 8] = [
         (
             Method::Auto,
             "auto",
@@ -58,6 +64,16 @@ impl Method {
             Method::EsopExact,
             "esop-exact",
             "functions of at most 5 inputs: minimum exclusive-or sum of products",
+        ),
+        (
+            Method::Bennett,
+            "bennett",
+            "functions: logic network computed, copied, uncomputed; --max-qubits schedules recomputation",
+        ),
+        (
+            Method::Hierarchical,
+            "hierarchical",
+            "functions: network cut into pieces of at most 4 leaves, each a minimum ESOP, glued by Bennett",
         ),
         (
             Method::Transform,
@@ -105,6 +121,9 @@ pub struct SynthLimits {
     /// Seconds an exact method may search before it returns its best circuit
     /// with a proven bound (default 30; `--exact-seconds`).
     pub exact_seconds: f64,
+    /// Most qubits the circuit may use, ancillae included (`--max-qubits`); a
+    /// method that can trade Toffolis for qubits schedules to fit.
+    pub max_qubits: Option<usize>,
 }
 
 impl Default for SynthLimits {
@@ -113,6 +132,7 @@ impl Default for SynthLimits {
             max_table_inputs: 24,
             max_gates: 2_000_000,
             exact_seconds: 30.0,
+            max_qubits: None,
         }
     }
 }
@@ -129,6 +149,14 @@ pub enum SynthError {
         kind: &'static str,
         /// What to use instead.
         hint: &'static str,
+    },
+    /// No schedule fits the qubit budget.
+    #[error("no circuit fits in {budget} qubits; {needed} qubits would work (--max-qubits)")]
+    Budget {
+        /// The budget asked for.
+        budget: usize,
+        /// A budget that works.
+        needed: usize,
     },
     /// A budget would be exceeded.
     #[error("{what} is {value}, over the limit of {limit}; raise it with {flag}")]
@@ -197,7 +225,12 @@ pub fn candidates(spec: &Spec, thorough: bool) -> Vec<Method> {
     match &spec.body {
         SpecBody::Function(f) => {
             let n = f.inputs.len();
-            let mut v = vec![Method::ReedMuller, Method::Esop];
+            let mut v = vec![
+                Method::ReedMuller,
+                Method::Esop,
+                Method::Bennett,
+                Method::Hierarchical,
+            ];
             let instant = n <= 4 && f.outputs.len() == 1;
             if instant || (thorough && n <= EXACT_ESOP_MAX_INPUTS) {
                 v.push(Method::EsopExact);
@@ -220,6 +253,16 @@ pub fn synthesize(
         (SpecBody::Function(f), Method::ReedMuller) => Ok(reed_muller(f, limits)?.into()),
         (SpecBody::Function(f), Method::Esop) => Ok(esop::esop(f, limits)?.into()),
         (SpecBody::Function(f), Method::EsopExact) => esop_exact_circuit(f, limits),
+        (SpecBody::Function(f), Method::Hierarchical) => {
+            let s = hierarchical(f, limits)?;
+            check_gates(&s.circuit, limits)?;
+            Ok(s)
+        }
+        (SpecBody::Function(f), Method::Bennett) => {
+            let s = bennett(f, limits)?;
+            check_gates(&s.circuit, limits)?;
+            Ok(s)
+        }
         (SpecBody::Permutation(p), Method::Transform) => {
             let c = transform(p);
             check_gates(&c, limits)?;
@@ -237,7 +280,7 @@ pub fn synthesize(
         (SpecBody::Function(_), m) => Err(SynthError::NotApplicable {
             method: m.name(),
             kind: "function",
-            hint: "use reed-muller, esop, esop-exact or auto",
+            hint: "use reed-muller, esop, esop-exact, bennett, hierarchical or auto",
         }),
         (SpecBody::Permutation(_), m) => Err(SynthError::NotApplicable {
             method: m.name(),

@@ -1,0 +1,217 @@
+//! Multi-level oracles: Bennett's compute-copy-uncompute, qubit budgets,
+//! definitions, and phase oracles checked on a statevector simulator.
+
+mod common;
+
+use common::*;
+use oraculum::{
+    bennett_counts, build_one, parse_spec, read_qasm, BuildOptions, Method, SpecBody, SynthError,
+    SynthLimits, Verdict, Verification,
+};
+use proptest::prelude::*;
+
+fn with_budget(q: Option<usize>) -> BuildOptions {
+    BuildOptions {
+        method: Method::Bennett,
+        limits: SynthLimits {
+            max_qubits: q,
+            exact_seconds: 5.0,
+            ..SynthLimits::default()
+        },
+        verify: Some(Default::default()),
+    }
+}
+
+fn expr_spec(n: usize, exprs: &[String]) -> String {
+    let names = input_names(n);
+    let quoted: Vec<String> = names.iter().map(|s| format!("\"{s}\"")).collect();
+    let outs: Vec<String> = (0..exprs.len()).map(|j| format!("\"out{j}\"")).collect();
+    let mut s = format!(
+        "kind = \"function\"\ninputs = [{}]\noutputs = [{}]\n[expr]\n",
+        quoted.join(", "),
+        outs.join(", ")
+    );
+    for (j, e) in exprs.iter().enumerate() {
+        s.push_str(&format!("out{j} = \"{e}\"\n"));
+    }
+    s
+}
+
+proptest! {
+    #![proptest_config(ProptestConfig { cases: 40, ..ProptestConfig::default() })]
+
+    /// Random networks of up to 12 inputs: plain Bennett and every budget it
+    /// accepts give correct outputs and clean ancillae, within the budget.
+    #[test]
+    fn bennett_under_every_accepted_budget((n, es) in (2usize..=12).prop_flat_map(|n| (Just(n), prop::collection::vec(arb_expr(n), 1..=3)))) {
+        let names = input_names(n);
+        let texts: Vec<String> = es.iter().map(|e| e.render(&names)).collect();
+        let spec = parse_spec("net.toml", &expr_spec(n, &texts)).unwrap();
+        let plain = build_one(&spec, Method::Bennett, &with_budget(None), &|_, _| {}).unwrap();
+        prop_assert!(plain.verification.is_proven());
+        // The test's own check on every input.
+        for x in 0..1u64 << n {
+            let out = plain.lowered.simulate(x);
+            let want = es.iter().enumerate().fold(0u64, |a, (j, e)| a | (e.eval(x) as u64) << j);
+            prop_assert_eq!((out >> n) & ((1 << es.len()) - 1), want);
+            prop_assert_eq!(out >> (n + es.len()), 0, "ancillae clean");
+        }
+        let mut q = plain.cost.qubits;
+        let mut last_toffoli = plain.cost.toffoli;
+        while q > n + es.len() {
+            q -= 1;
+            match build_one(&spec, Method::Bennett, &with_budget(Some(q)), &|_, _| {}) {
+                Ok(o) => {
+                    prop_assert!(o.verification.is_proven(), "budget {}", q);
+                    prop_assert!(o.cost.qubits <= q);
+                    prop_assert!(o.cost.toffoli >= plain.cost.toffoli.min(last_toffoli) || o.cost.toffoli >= plain.cost.toffoli);
+                    last_toffoli = o.cost.toffoli;
+                }
+                Err(e) => {
+                    let budget_error = matches!(e, oraculum::BuildError::Synth(SynthError::Budget { needed, .. }) if needed > q);
+                    prop_assert!(budget_error, "{}", e);
+                    break;
+                }
+            }
+        }
+    }
+}
+
+// Bennett 1973 (checks.md): a forward circuit of G gates with m outputs
+// becomes 2G + m gates.
+#[test]
+fn plain_bennett_has_2g_plus_m_gates() {
+    let text = expr_spec(
+        6,
+        &[
+            "in0 & in1 & (in2 | in3)".into(),
+            "(in4 ^ in5) & in0".into(),
+            "in1 & !in2 & in3 & !in5".into(),
+        ],
+    );
+    let spec = parse_spec("b.toml", &text).unwrap();
+    let SpecBody::Function(f) = &spec.body else {
+        unreachable!()
+    };
+    let (g, m) = bennett_counts(f).unwrap();
+    assert_eq!(m, 3, "each output is a single node: one copy each");
+    let out = build_one(&spec, Method::Bennett, &with_budget(None), &|_, _| {}).unwrap();
+    assert_eq!(out.mct.gates().len(), 2 * g + m);
+    assert!(out.verification.is_proven());
+}
+
+#[test]
+fn a_64_input_spec_is_proven_by_sat() {
+    let text = std::fs::read_to_string(concat!(
+        env!("CARGO_MANIFEST_DIR"),
+        "/specs/badge-match.toml"
+    ))
+    .unwrap();
+    let spec = parse_spec("badge-match.toml", &text).unwrap();
+    let out = build_one(&spec, Method::Bennett, &with_budget(None), &|_, _| {}).unwrap();
+    match out.verification {
+        Verification::Ran(Verdict::Proven { by, free_bits, .. }) => {
+            assert_eq!(by, "sat");
+            assert_eq!(free_bits, 65);
+        }
+        other => panic!("{other:?}"),
+    }
+    // Spot checks with the test's own simulator: matching codes of odd parity open.
+    let code: u128 = 0x8000_0001 ^ 0x10;
+    let x = code | code << 32;
+    let r = run_registers(&out.lowered, &[("x", x)]);
+    assert_eq!(r["y"], 1);
+    let r = run_registers(&out.lowered, &[("x", x ^ (1 << 40))]);
+    assert_eq!(r["y"], 0);
+    assert_eq!(r.get("anc").copied().unwrap_or(0), 0);
+}
+
+/// The phase oracle, run by the `qasmsim` statevector simulator on the uniform
+/// superposition, gives amplitude (-1)^f(x) / sqrt(2^n) on |x>|0>|0> and
+/// nothing elsewhere.
+#[test]
+fn phase_oracle_on_a_statevector_simulator() {
+    let text = std::fs::read_to_string(concat!(
+        env!("CARGO_MANIFEST_DIR"),
+        "/specs/vault-phase.toml"
+    ))
+    .unwrap();
+    let spec = parse_spec("vault.toml", &text).unwrap();
+    let out = build_one(&spec, Method::Esop, &with_budget(None), &|_, _| {}).unwrap();
+    assert!(out.verification.is_proven());
+    let qasm = out.qasm().unwrap();
+    assert_eq!(qasm.matches("\nh ").count(), 2);
+    // Put the inputs into uniform superposition right after the declarations.
+    let n = 4;
+    let mut src = String::new();
+    let mut done = false;
+    for line in qasm.lines() {
+        if !done
+            && !line.starts_with("qreg")
+            && !line.starts_with("//")
+            && !line.starts_with("OPENQASM")
+            && !line.starts_with("include")
+        {
+            for i in 0..n {
+                src.push_str(&format!("h x[{i}];\n"));
+            }
+            done = true;
+        }
+        src.push_str(line);
+        src.push('\n');
+    }
+    let run = qasmsim::run(&src, None).unwrap();
+    let amps = run.statevector().as_complex_bases();
+    let scale = 1.0 / (1u64 << n) as f64;
+    let scale = scale.sqrt();
+    for (i, a) in amps.iter().enumerate() {
+        let x = i as u64 & ((1 << n) - 1);
+        let (a1, a0, b1, b0) = ((x >> 1) & 1, x & 1, (x >> 3) & 1, (x >> 2) & 1);
+        let f = (a1 * 2 + a0) < (b1 * 2 + b0);
+        let want = if i >> n != 0 {
+            0.0
+        } else if f {
+            -scale
+        } else {
+            scale
+        };
+        assert!(
+            (a.re - want).abs() < 1e-9 && a.im.abs() < 1e-9,
+            "basis {i}: {a:?}, want {want}"
+        );
+    }
+    // The reader takes the file back as its xor form.
+    let c = read_qasm("vault.qasm", &qasm).unwrap();
+    assert_eq!(
+        c.gates(),
+        out.lowered.gates(),
+        "{:?}\n{:?}",
+        c.gates().len(),
+        out.lowered.gates().len()
+    );
+    let stray = qasm.replacen("x x[0];", "h x[0];", 1);
+    assert!(read_qasm("vault.qasm", &stray).is_err());
+}
+
+#[test]
+fn impossible_budget_names_one_that_works() {
+    let text = std::fs::read_to_string(concat!(
+        env!("CARGO_MANIFEST_DIR"),
+        "/specs/shift-rota.toml"
+    ))
+    .unwrap();
+    let spec = parse_spec("rota.toml", &text).unwrap();
+    let e = build_one(&spec, Method::Bennett, &with_budget(Some(10)), &|_, _| {}).unwrap_err();
+    let oraculum::BuildError::Synth(SynthError::Budget { budget, needed }) = e else {
+        panic!("{e}")
+    };
+    assert_eq!(budget, 10);
+    let o = build_one(
+        &spec,
+        Method::Bennett,
+        &with_budget(Some(needed)),
+        &|_, _| {},
+    )
+    .unwrap();
+    assert!(o.verification.is_proven() && o.cost.qubits <= needed);
+}
