@@ -240,6 +240,13 @@ pub fn build_one(
     opts: &BuildOptions,
     progress: &(dyn Fn(u64, u64) + Sync),
 ) -> Result<Outcome, BuildError> {
+    if method == Method::Auto {
+        let auto = BuildOptions {
+            method: Method::Auto,
+            ..*opts
+        };
+        return build_with_progress(spec, &auto, progress);
+    }
     let t0 = Instant::now();
     let synthesis = synthesize(spec, method, &opts.limits)?;
     let mct = synthesis.circuit;

@@ -274,8 +274,18 @@ pub fn synthesize(
             Ok(c.into())
         }
         (_, Method::Auto) => {
-            let m = candidates(spec, false)[0];
-            synthesize(spec, m, limits)
+            // The first candidate that yields a circuit (the pipeline's auto
+            // compares them all; this is for callers of synthesis alone).
+            let mut first_error = None;
+            for m in candidates(spec, false) {
+                match synthesize(spec, m, limits) {
+                    Ok(s) => return Ok(s),
+                    Err(e) => {
+                        first_error.get_or_insert(e);
+                    }
+                }
+            }
+            Err(first_error.expect("every spec kind has a candidate"))
         }
         (SpecBody::Function(_), m) => Err(SynthError::NotApplicable {
             method: m.name(),
