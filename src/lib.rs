@@ -34,7 +34,7 @@ mod synth;
 mod verify;
 
 pub use circuit::{Circuit, Control, Cost, Gate, Line, LineInfo, LineOutOfRange, Role};
-pub use export::{listing, read_qasm, write_qasm, QasmHeader, WriteError};
+pub use export::{draw_svg, draw_text, listing, read_qasm, write_qasm, QasmHeader, WriteError};
 pub use logic::{
     parse_expr, third, Cube, Esop, Expr, ExprError, Lit, Literal, Network, Node, Permutation,
     PermutationError, TableError, TruthTable, MAX_PERMUTATION_WIDTH, MAX_TABLE_VARS,

@@ -124,8 +124,39 @@ enum Command {
         #[command(flatten)]
         limits: LimitArgs,
     },
+    /// Draw a circuit (an OpenQASM 2 file, or a spec, synthesized first) in the terminal or as SVG.
+    Draw {
+        /// A circuit (.qasm) or a spec (.toml).
+        input: PathBuf,
+        /// Write an SVG drawing here instead of drawing in the terminal.
+        #[arg(long, value_name = "OUT.svg")]
+        svg: Option<PathBuf>,
+        /// Columns to fit (default: the terminal's, else 100).
+        #[arg(long)]
+        width: Option<usize>,
+        /// For a spec: draw the circuit after lowering to Toffoli gates.
+        #[arg(long)]
+        lowered: bool,
+        /// For a spec: the synthesis method.
+        #[arg(short, long, default_value = "auto")]
+        method: String,
+        /// Print the circuit's lines and gates as one JSON object.
+        #[arg(long)]
+        json: bool,
+    },
     /// List the synthesis methods.
-    Methods,
+    Methods {
+        /// Print them as one JSON object.
+        #[arg(long)]
+        json: bool,
+    },
+    /// Print a shell completion script (bash, zsh, fish, elvish, powershell).
+    Completions {
+        /// The shell.
+        shell: clap_complete::Shell,
+    },
+    /// Print the manual page (roff), for `man -l -` or a man folder.
+    Man,
 }
 
 #[derive(clap::Args)]
@@ -265,10 +296,45 @@ fn dispatch(cmd: Command) -> Result<i32, Failure> {
         Command::Merge { results, json } => merge(&results, json),
         Command::Cost { circuit, json } => cost(&circuit, json),
         Command::Compare { spec, json, limits } => compare_methods(&spec, json, &limits),
-        Command::Methods => {
-            for (_, name, about) in Method::ALL {
-                println!("{name:<14} {about}");
+        Command::Methods { json } => {
+            if json {
+                let list: Vec<serde_json::Value> = Method::ALL
+                    .iter()
+                    .map(|(_, name, about)| json!({ "method": name, "about": about }))
+                    .collect();
+                println!(
+                    "{}",
+                    serde_json::to_string_pretty(&json!({ "methods": list })).unwrap_or_default()
+                );
+            } else {
+                for (_, name, about) in Method::ALL {
+                    println!("{name:<14} {about}");
+                }
             }
+            Ok(code::DONE)
+        }
+        Command::Draw {
+            input,
+            svg,
+            width,
+            lowered,
+            method,
+            json,
+        } => draw(&input, svg.as_deref(), width, lowered, &method, json),
+        Command::Completions { shell } => {
+            let mut cmd = <Cli as clap::CommandFactory>::command();
+            clap_complete::generate(shell, &mut cmd, "oraculum", &mut std::io::stdout());
+            Ok(code::DONE)
+        }
+        Command::Man => {
+            let cmd = <Cli as clap::CommandFactory>::command();
+            let mut out = Vec::new();
+            clap_mangen::Man::new(cmd)
+                .render(&mut out)
+                .map_err(|e| Failure::bad(format!("cannot render the manual: {e}")))?;
+            std::io::stdout()
+                .write_all(&out)
+                .map_err(|e| Failure::bad(format!("cannot write the manual: {e}")))?;
             Ok(code::DONE)
         }
     }
@@ -431,6 +497,59 @@ fn synth(
             eprint!("{summary}");
         }
     }
+    Ok(code::DONE)
+}
+
+fn draw(
+    input: &Path,
+    svg: Option<&Path>,
+    width: Option<usize>,
+    lowered: bool,
+    method: &str,
+    json: bool,
+) -> Result<i32, Failure> {
+    let is_qasm = input.extension().is_some_and(|e| e == "qasm");
+    let (circuit, title) = if is_qasm {
+        (load_circuit(input)?, input.display().to_string())
+    } else {
+        let m = Method::from_name(method)
+            .ok_or_else(|| Failure::bad(format!("unknown method '{method}'")))?;
+        let spec = load_spec(input)?;
+        let out = oraculum::build(
+            &spec,
+            &BuildOptions {
+                method: m,
+                ..BuildOptions::default()
+            },
+        )
+        .map_err(verdict_failure)?;
+        let title = format!(
+            "{} ({}{})",
+            spec.name
+                .clone()
+                .unwrap_or_else(|| input.display().to_string()),
+            out.method,
+            if lowered { ", lowered" } else { "" }
+        );
+        (if lowered { out.lowered } else { out.mct }, title)
+    };
+    if json {
+        println!(
+            "{}",
+            serde_json::to_string_pretty(&circuit).unwrap_or_default()
+        );
+        return Ok(code::DONE);
+    }
+    if let Some(p) = svg {
+        write_atomic(p, &oraculum::draw_svg(&circuit, &title), &[input])?;
+        println!("wrote {} ({} gates)", p.display(), circuit.gates().len());
+        return Ok(code::DONE);
+    }
+    let cols = width
+        .or_else(|| std::env::var("COLUMNS").ok().and_then(|c| c.parse().ok()))
+        .unwrap_or(100);
+    println!("{title}");
+    print!("{}", oraculum::draw_text(&circuit, cols));
     Ok(code::DONE)
 }
 

@@ -1,7 +1,9 @@
 //! Writers and readers: OpenQASM 2 (both ways) and a plain text listing.
 
+mod draw;
 mod qasm2;
 mod text;
 
+pub use draw::{draw_svg, draw_text};
 pub use qasm2::{read_qasm, write_qasm, QasmHeader, WriteError};
 pub use text::listing;

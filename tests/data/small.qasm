@@ -1,0 +1,10 @@
+OPENQASM 2.0;
+include "qelib1.inc";
+qreg x[3];
+qreg y[1];
+qreg anc[1];
+ccx x[0],x[1],anc[0];
+ccx anc[0],x[2],y[0];
+ccx x[0],x[1],anc[0];
+x x[2];
+cx x[2],y[0];

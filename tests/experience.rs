@@ -1,0 +1,210 @@
+//! The user's first five minutes: drawings, JSON from every command,
+//! completions and the manual, and the README walkthrough run as written.
+
+use std::path::{Path, PathBuf};
+use std::process::{Command, Output};
+
+fn repo() -> PathBuf {
+    PathBuf::from(env!("CARGO_MANIFEST_DIR"))
+}
+
+fn run_in(dir: &Path, args: &[&str]) -> Output {
+    Command::new(env!("CARGO_BIN_EXE_oraculum"))
+        .current_dir(dir)
+        .args(args)
+        .output()
+        .expect("the binary runs")
+}
+
+fn workspace() -> tempfile::TempDir {
+    let dir = tempfile::tempdir().unwrap();
+    std::fs::create_dir(dir.path().join("specs")).unwrap();
+    for e in std::fs::read_dir(repo().join("specs")).unwrap() {
+        let e = e.unwrap();
+        std::fs::copy(e.path(), dir.path().join("specs").join(e.file_name())).unwrap();
+    }
+    std::fs::copy(
+        repo().join("tests/data/small.qasm"),
+        dir.path().join("small.qasm"),
+    )
+    .unwrap();
+    dir
+}
+
+#[test]
+fn terminal_drawing_matches_the_stored_one() {
+    let dir = workspace();
+    let o = run_in(dir.path(), &["draw", "small.qasm", "--width", "80"]);
+    assert_eq!(o.status.code(), Some(0));
+    let got = String::from_utf8(o.stdout).unwrap();
+    let got: String = got.lines().skip(1).map(|l| format!("{l}\n")).collect();
+    let want = std::fs::read_to_string(repo().join("tests/data/small.draw.txt")).unwrap();
+    assert_eq!(got, want, "\n--- got ---\n{got}--- want ---\n{want}");
+    // Narrow terminals wrap into labelled sections, each line within the width.
+    let o = run_in(
+        dir.path(),
+        &["draw", "specs/shift-rota.toml", "--width", "40"],
+    );
+    let text = String::from_utf8(o.stdout).unwrap();
+    assert!(text.contains("gates 1-"), "{text}");
+    assert!(text.lines().all(|l| l.chars().count() <= 40), "{text}");
+}
+
+#[test]
+fn svg_is_xml_with_one_element_per_gate() {
+    let dir = workspace();
+    for (input, lowered) in [
+        ("small.qasm", false),
+        ("specs/greenhouse.toml", false),
+        ("specs/greenhouse.toml", true),
+    ] {
+        let mut args = vec!["draw", input, "--svg", "out.svg"];
+        if lowered {
+            args.push("--lowered");
+        }
+        let o = run_in(dir.path(), &args);
+        assert_eq!(o.status.code(), Some(0), "{o:?}");
+        let svg = std::fs::read_to_string(dir.path().join("out.svg")).unwrap();
+        let doc = roxmltree::Document::parse(&svg).expect("the SVG parses as XML");
+        let gates = doc
+            .descendants()
+            .filter(|n| n.has_tag_name("g") && n.attribute("class") == Some("gate"))
+            .count();
+        let mut json_args = vec!["draw", input, "--json"];
+        if lowered {
+            json_args.push("--lowered");
+        }
+        let o = run_in(dir.path(), &json_args);
+        let v: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
+        assert_eq!(gates, v["gates"].as_array().unwrap().len(), "{input}");
+        assert!(gates > 0);
+    }
+}
+
+#[test]
+fn every_command_speaks_json() {
+    let dir = workspace();
+    let json = |args: &[&str]| -> serde_json::Value {
+        let o = run_in(dir.path(), args);
+        serde_json::from_slice(&o.stdout).unwrap_or_else(|e| panic!("{args:?}: {e}: {o:?}"))
+    };
+    let v = json(&["synth", "specs/greenhouse.toml", "-o", "g.qasm", "--json"]);
+    for f in [
+        "name",
+        "method",
+        "cost",
+        "verification",
+        "seconds",
+        "notes",
+        "output",
+    ] {
+        assert!(v.get(f).is_some(), "synth: {f}");
+    }
+    let v = json(&[
+        "verify",
+        "g.qasm",
+        "--spec",
+        "specs/greenhouse.toml",
+        "--json",
+    ]);
+    for f in [
+        "verdict",
+        "by",
+        "free_bits",
+        "states",
+        "circuit",
+        "spec",
+        "seconds",
+    ] {
+        assert!(v.get(f).is_some(), "verify: {f}");
+    }
+    let v = json(&["cost", "g.qasm", "--json"]);
+    for f in [
+        "qubits",
+        "mct",
+        "toffoli",
+        "cnot",
+        "not",
+        "depth",
+        "toffoli_depth",
+        "t_count",
+    ] {
+        assert!(v.get(f).is_some(), "cost: {f}");
+    }
+    let v = json(&["compare", "specs/greenhouse.toml", "--json"]);
+    for f in ["spec", "name", "methods", "best", "tradeoff"] {
+        assert!(v.get(f).is_some(), "compare: {f}");
+    }
+    let v = json(&["methods", "--json"]);
+    assert!(v["methods"].as_array().unwrap().len() >= 8);
+    let v = json(&["draw", "small.qasm", "--json"]);
+    assert_eq!(v["lines"].as_array().unwrap().len(), 5);
+    let o = run_in(
+        dir.path(),
+        &[
+            "verify",
+            "g.qasm",
+            "--spec",
+            "specs/greenhouse.toml",
+            "--shard",
+            "0/1",
+            "-o",
+            "s.json",
+        ],
+    );
+    assert_eq!(o.status.code(), Some(0));
+    let v = json(&["merge", "s.json", "--json"]);
+    assert_eq!(v["verdict"], "proven");
+}
+
+#[test]
+fn completions_and_manual() {
+    let dir = workspace();
+    for shell in ["bash", "zsh", "fish"] {
+        let o = run_in(dir.path(), &["completions", shell]);
+        assert_eq!(o.status.code(), Some(0));
+        let text = String::from_utf8(o.stdout).unwrap();
+        assert!(
+            text.contains("synth") && text.contains("compare") && text.contains("max-qubits"),
+            "{shell}"
+        );
+    }
+    let o = run_in(dir.path(), &["man"]);
+    let text = String::from_utf8(o.stdout).unwrap();
+    assert!(text.starts_with(".ie") || text.contains(".TH"), "roff");
+    assert!(text.contains("oraculum"));
+    let o = run_in(dir.path(), &["--version"]);
+    assert!(String::from_utf8(o.stdout)
+        .unwrap()
+        .contains(env!("CARGO_PKG_VERSION")));
+}
+
+/// Every `$ oraculum ...` line of the README's walkthrough runs as written, in
+/// order, in a fresh folder with the demo specs, and exits as the README says
+/// (0 unless the line is followed by a `# exit N` comment).
+#[test]
+fn readme_walkthrough_runs_as_written() {
+    let readme = std::fs::read_to_string(repo().join("README.md")).unwrap();
+    let start = readme
+        .find("## Walkthrough")
+        .expect("the README has a walkthrough");
+    let end = readme[start + 3..]
+        .find("\n## ")
+        .map_or(readme.len(), |e| start + 3 + e);
+    let dir = workspace();
+    let mut ran = 0;
+    for line in readme[start..end].lines() {
+        let Some(cmd) = line.trim().strip_prefix("$ oraculum ") else {
+            continue;
+        };
+        let (cmd, want) = match cmd.split_once("# exit ") {
+            Some((c, code)) => (c.trim(), code.trim().parse::<i32>().unwrap()),
+            None => (cmd.trim(), 0),
+        };
+        let args: Vec<&str> = cmd.split_whitespace().collect();
+        let o = run_in(dir.path(), &args);
+        assert_eq!(o.status.code(), Some(want), "`oraculum {cmd}`: {o:?}");
+        ran += 1;
+    }
+    assert!(ran >= 6, "the walkthrough has its commands ({ran})");
+}
