@@ -41,7 +41,9 @@ pub use logic::{
 };
 pub use lower::{lower, ANCILLA_REGISTER};
 pub use mutate::{mutants, Fault};
-pub use opt::{cancel_pairs, CANCEL_WINDOW};
+pub use opt::{
+    cancel_pairs, lowered_cost, merge_pairs, optimize, resynthesize_windows, CANCEL_WINDOW,
+};
 pub use pipeline::{
     build, build_one, build_with_progress, compare, tradeoff, BuildError, BuildOptions, Outcome,
     Report, Timings, Verification,
@@ -52,10 +54,11 @@ pub use spec::{
 };
 pub use synth::{
     arith_lines, arithmetic, bennett, bennett_counts, candidates, esop_circuit, esop_of,
-    exact_esop, exorlink_minimize, function_lines, hierarchical, minimize_tables, network_of,
-    permutation_lines, reed_muller, reed_muller_coefficients, synthesize, transform, EsopTable,
-    ExactEsop, Method, Registers, SynthError, SynthLimits, Synthesis, EXACT_ESOP_MAX_INPUTS,
-    EXORLINK_MAX_TERMS, EXORLINK_WORK, PIECE_INPUTS,
+    exact_esop, exorlink_minimize, function_lines, hierarchical, library, minimize_tables,
+    network_of, permutation_lines, reed_muller, reed_muller_coefficients, synthesize, transform,
+    transform_function, transform_with, EsopTable, Exact3, ExactEsop, Method, Registers,
+    SynthError, SynthLimits, Synthesis, EXACT_ESOP_MAX_INPUTS, EXORLINK_MAX_TERMS, EXORLINK_WORK,
+    PIECE_INPUTS, TRANSFORM_MAX_LINES,
 };
 pub use verify::{
     fingerprint, free_lines, merge_shards, sat_equivalence, verify, verify_shard,

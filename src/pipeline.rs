@@ -3,6 +3,7 @@
 use crate::circuit::{Circuit, Cost};
 use crate::export::{write_qasm, QasmHeader, WriteError};
 use crate::lower::lower;
+use crate::opt::optimize;
 use crate::spec::OracleForm;
 use crate::spec::SpecBody;
 use crate::synth::{candidates, network_of, synthesize, Method, SynthError, SynthLimits};
@@ -47,7 +48,7 @@ impl Verification {
 pub struct Timings {
     /// Synthesis and optimization.
     pub synth: f64,
-    /// Lowering to Toffoli gates.
+    /// Optimization and lowering to Toffoli gates.
     pub lower: f64,
     /// Verification.
     pub verify: f64,
@@ -233,7 +234,20 @@ fn pick_best(
     }
 }
 
-/// Synthesizes with one method, lowers, measures, and verifies.
+/// Most gates for which the optimizer runs.
+pub const OPTIMIZE_MAX_GATES: usize = 50_000;
+
+/// The circuit after [`optimize`] (which never makes it worse once lowered),
+/// and its lowered form.
+fn optimized(mut mct: crate::Circuit) -> (crate::Circuit, crate::Circuit) {
+    if mct.gates().len() <= OPTIMIZE_MAX_GATES {
+        optimize(&mut mct);
+    }
+    let lowered = lower(&mct);
+    (mct, lowered)
+}
+
+/// Synthesizes with one method, optimizes, lowers, measures, and verifies.
 pub fn build_one(
     spec: &Spec,
     method: Method,
@@ -249,9 +263,8 @@ pub fn build_one(
     }
     let t0 = Instant::now();
     let synthesis = synthesize(spec, method, &opts.limits)?;
-    let mct = synthesis.circuit;
     let t1 = Instant::now();
-    let lowered = lower(&mct);
+    let (mct, lowered) = optimized(synthesis.circuit);
     let t2 = Instant::now();
     let cost = Cost::measure(&mct, &lowered);
     let verification = match &opts.verify {

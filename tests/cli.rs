@@ -287,7 +287,7 @@ fn usage_errors_exit_2() {
     assert!(text(&o).1.contains("reed-muller"));
     let o = run_in(
         dir.path(),
-        &["synth", "specs/greenhouse.toml", "--method", "transform"],
+        &["synth", "specs/greenhouse.toml", "--method", "structural"],
     );
     assert_eq!(o.status.code(), Some(2));
     let o = run_in(dir.path(), &["synth", "specs/missing.toml"]);

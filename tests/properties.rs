@@ -198,3 +198,23 @@ fn skipped_verification_is_reported_as_skipped() {
     assert!(matches!(out.verification, Verification::Skipped { .. }));
     assert!(!out.verification.is_proven());
 }
+
+proptest! {
+    #![proptest_config(ProptestConfig { cases: 500, ..ProptestConfig::default() })]
+
+    /// The optimizer keeps the function of random circuits (up to 8 lines and
+    /// 60 gates), never makes them longer once lowered, and never raises the
+    /// lowered Toffoli count.
+    #[test]
+    fn optimizer_keeps_the_function(c in (1usize..=8).prop_flat_map(|w| arb_circuit(w, 60))) {
+        let mut o = c.clone();
+        oraculum::optimize(&mut o);
+        prop_assert!(o.gates().len() <= c.gates().len());
+        prop_assert!(oraculum::lower(&o).gates().len() <= oraculum::lower(&c).gates().len());
+        for s in 0..1u64 << c.width() {
+            prop_assert_eq!(o.simulate(s), c.simulate(s));
+        }
+        let toffolis = |x: &Circuit| oraculum::lower(x).gates().iter().filter(|g| g.controls().len() == 2).count();
+        prop_assert!(toffolis(&o) <= toffolis(&c), "{} > {}", toffolis(&o), toffolis(&c));
+    }
+}

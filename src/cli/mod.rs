@@ -589,7 +589,7 @@ fn compare_methods(spec_path: &Path, json: bool, limits: &LimitArgs) -> Result<i
         println!("{}", serde_json::to_string_pretty(&v).unwrap_or_default());
     } else {
         println!(
-            "{:<13} {:>8} {:>8} {:>8} {:>7} {:>8} {:>9}  verified",
+            "{:<17} {:>8} {:>8} {:>8} {:>7} {:>8} {:>9}  verified",
             "method", "mct", "toffoli", "cnot", "qubits", "t-count", "seconds"
         );
         for (m, r) in &rows {
@@ -602,7 +602,7 @@ fn compare_methods(spec_path: &Path, json: bool, limits: &LimitArgs) -> Result<i
                     };
                     let mark = if Some(*m) == best { "*" } else { " " };
                     println!(
-                        "{:<13} {:>8} {:>8} {:>8} {:>7} {:>8} {:>9.3}  {v}",
+                        "{:<17} {:>8} {:>8} {:>8} {:>7} {:>8} {:>9.3}  {v}",
                         format!("{m}{mark}"),
                         o.cost.mct_total(),
                         o.cost.toffoli,
@@ -612,10 +612,10 @@ fn compare_methods(spec_path: &Path, json: bool, limits: &LimitArgs) -> Result<i
                         secs
                     );
                     for n in &o.notes {
-                        println!("{:<13} note: {n}", "");
+                        println!("{:<17} note: {n}", "");
                     }
                 }
-                Err(e) => println!("{:<13} no circuit: {e}", m.name()),
+                Err(e) => println!("{:<17} no circuit: {e}", m.name()),
             }
         }
         if let Some(m) = best {

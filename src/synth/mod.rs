@@ -4,6 +4,7 @@ mod arith;
 mod bennett;
 mod esop;
 mod esop_exact;
+mod exact;
 mod reed_muller;
 mod transform;
 
@@ -13,8 +14,9 @@ pub use esop::{
     esop_circuit, esop_of, exorlink_minimize, minimize_tables, EXORLINK_MAX_TERMS, EXORLINK_WORK,
 };
 pub use esop_exact::{exact_esop, EsopTable, ExactEsop, EXACT_ESOP_MAX_INPUTS};
+pub use exact::{library, Exact3};
 pub use reed_muller::{reed_muller, reed_muller_coefficients};
-pub use transform::transform;
+pub use transform::{transform, transform_function, transform_with, TRANSFORM_MAX_LINES};
 
 use crate::circuit::{Circuit, LineInfo, Role};
 use crate::spec::{FunctionSpec, Spec, SpecBody};
@@ -30,6 +32,10 @@ pub enum Method {
     ReedMuller,
     /// Basic transformation-based synthesis (Miller, Maslov, Dueck 2003).
     Transform,
+    /// Bidirectional transformation-based synthesis.
+    TransformBidir,
+    /// Optimal circuits (at most 3 lines).
+    Exact,
     /// Structural generators for arithmetic specs.
     Structural,
     /// ESOP extraction and exorlink minimization, one gate per cube and output.
@@ -44,7 +50,7 @@ pub enum Method {
 
 impl Method {
     /// Every method with its name and what it takes.
-    pub const ALL: [(Method, &'static str, &'static str); 8] = [
+    pub const ALL: [(Method, &'static str, &'static str); 10] = [
         (
             Method::Auto,
             "auto",
@@ -78,7 +84,17 @@ impl Method {
         (
             Method::Transform,
             "transform",
-            "permutations: transformation-based synthesis, output side",
+            "permutations (and functions of at most 16 lines through their xor embedding): transformation-based synthesis, output side",
+        ),
+        (
+            Method::TransformBidir,
+            "transform-bidir",
+            "as transform, fixing each row from whichever side is closer",
+        ),
+        (
+            Method::Exact,
+            "exact",
+            "permutations of at most 3 lines (and functions through their xor embedding): a minimum NOT/CNOT/Toffoli circuit",
         ),
         (
             Method::Structural,
@@ -237,7 +253,10 @@ pub fn candidates(spec: &Spec, thorough: bool) -> Vec<Method> {
             }
             v
         }
-        SpecBody::Permutation(_) => vec![Method::Transform],
+        SpecBody::Permutation(p) if p.width() <= 3 => {
+            vec![Method::Transform, Method::TransformBidir, Method::Exact]
+        }
+        SpecBody::Permutation(_) => vec![Method::Transform, Method::TransformBidir],
         SpecBody::Arithmetic(_) => vec![Method::Structural],
     }
 }
@@ -263,8 +282,39 @@ pub fn synthesize(
             check_gates(&s.circuit, limits)?;
             Ok(s)
         }
-        (SpecBody::Permutation(p), Method::Transform) => {
-            let c = transform(p);
+        (SpecBody::Permutation(p), Method::Transform | Method::TransformBidir) => {
+            if p.width() > TRANSFORM_MAX_LINES {
+                return Err(SynthError::NotApplicable {
+                    method: method.name(),
+                    kind: "permutation",
+                    hint: "it takes at most 16 lines",
+                });
+            }
+            let c = transform_with(p, method == Method::TransformBidir);
+            check_gates(&c, limits)?;
+            Ok(c.into())
+        }
+        (SpecBody::Permutation(p), Method::Exact) => exact_circuit(p.images(), p.width(), permutation_lines(p.width())),
+        (SpecBody::Function(f), Method::Exact) => {
+            let (n, m) = (f.inputs.len(), f.outputs.len());
+            if n + m > 3 {
+                return Err(exact_refused());
+            }
+            let tables: Vec<_> = (0..m).map(|j| f.table(j).expect("at most 3 inputs")).collect();
+            let images: Vec<u64> = (0..1u64 << (n + m))
+                .map(|s| {
+                    let x = s & ((1 << n) - 1);
+                    let fx = tables
+                        .iter()
+                        .enumerate()
+                        .fold(0u64, |a, (j, t)| a | (t.get(x as usize) as u64) << j);
+                    s ^ (fx << n)
+                })
+                .collect();
+            exact_circuit(&images, n + m, function_lines(f))
+        }
+        (SpecBody::Function(f), Method::Transform | Method::TransformBidir) => {
+            let c = transform_function(f, method == Method::TransformBidir)?;
             check_gates(&c, limits)?;
             Ok(c.into())
         }
@@ -290,12 +340,12 @@ pub fn synthesize(
         (SpecBody::Function(_), m) => Err(SynthError::NotApplicable {
             method: m.name(),
             kind: "function",
-            hint: "use reed-muller, esop, esop-exact, bennett, hierarchical or auto",
+            hint: "use reed-muller, esop, esop-exact, bennett, hierarchical, transform, transform-bidir or auto",
         }),
         (SpecBody::Permutation(_), m) => Err(SynthError::NotApplicable {
             method: m.name(),
             kind: "permutation",
-            hint: "use transform or auto",
+            hint: "use transform, transform-bidir or auto",
         }),
         (SpecBody::Arithmetic(_), m) => Err(SynthError::NotApplicable {
             method: m.name(),
@@ -303,6 +353,38 @@ pub fn synthesize(
             hint: "use structural or auto",
         }),
     }
+}
+
+fn exact_refused() -> SynthError {
+    SynthError::NotApplicable {
+        method: "exact",
+        kind: "spec of more than 3 lines",
+        hint: "exact covers at most 3 lines in this version; use transform-bidir",
+    }
+}
+
+/// The optimal circuit of a function of at most 3 lines, padded to 3 lines for
+/// the table and placed on `lines`.
+fn exact_circuit(
+    images: &[u64],
+    width: usize,
+    lines: Vec<LineInfo>,
+) -> Result<Synthesis, SynthError> {
+    if width > 3 {
+        return Err(exact_refused());
+    }
+    let gates = Exact3::for_width(width).circuit(images);
+    let mut c = Circuit::new(lines);
+    for g in gates {
+        c.push(g);
+    }
+    Ok(Synthesis {
+        notes: vec![format!(
+            "exact: {} gates, minimum over NOT, CNOT and Toffoli",
+            c.gates().len()
+        )],
+        circuit: c,
+    })
 }
 
 fn esop_exact_circuit(f: &FunctionSpec, limits: &SynthLimits) -> Result<Synthesis, SynthError> {

@@ -238,3 +238,32 @@ pub fn run_registers(
 pub fn arith_toml(op: &str, width: usize, extra: &str) -> String {
     format!("kind = \"arithmetic\"\nop = \"{op}\"\nwidth = {width}\n{extra}\n")
 }
+
+/// A random circuit of MCT gates with mixed polarities on `lines` lines.
+pub fn arb_circuit(lines: usize, gates: usize) -> impl Strategy<Value = oraculum::Circuit> {
+    let gate = (
+        0..lines as u32,
+        prop::collection::vec((0..lines as u32, any::<bool>()), 0..4),
+    )
+        .prop_filter_map("distinct lines", |(t, cs)| {
+            let controls: Vec<oraculum::Control> = cs
+                .into_iter()
+                .map(|(l, p)| oraculum::Control {
+                    line: oraculum::Line(l),
+                    positive: p,
+                })
+                .collect();
+            oraculum::Gate::new(controls, oraculum::Line(t))
+        });
+    prop::collection::vec(gate, 0..=gates).prop_map(move |gs| {
+        let info = (0..lines)
+            .map(|i| oraculum::LineInfo {
+                register: "x".into(),
+                index: i as u32,
+                role: oraculum::Role::Data,
+                label: String::new(),
+            })
+            .collect();
+        oraculum::Circuit::from_parts(info, gs).unwrap()
+    })
+}
