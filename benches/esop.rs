@@ -1,28 +1,13 @@
 //! ESOP figures for BENCHMARKS.md. Run with `cargo bench --bench esop`.
 
+mod common;
+use common::*;
+
 use oraculum::{
     build_one, minimize_tables, parse_spec, BuildOptions, EsopTable, Method, SynthLimits,
     TruthTable,
 };
 use std::time::Instant;
-
-struct Mix(u64);
-impl Mix {
-    fn next(&mut self) -> u64 {
-        self.0 = self.0.wrapping_add(0x9e37_79b9_7f4a_7c15);
-        let mut z = self.0;
-        z = (z ^ (z >> 30)).wrapping_mul(0xbf58_476d_1ce4_e5b9);
-        z = (z ^ (z >> 27)).wrapping_mul(0x94d0_49bb_1331_11eb);
-        z ^ (z >> 31)
-    }
-}
-
-fn names(n: usize) -> String {
-    (0..n)
-        .map(|i| format!("\"v{i}\""))
-        .collect::<Vec<_>>()
-        .join(", ")
-}
 
 fn random_spec(rng: &mut Mix, n: usize, m: usize) -> String {
     let outs: Vec<String> = (0..m).map(|j| format!("\"f{j}\"")).collect();

@@ -1,29 +1,13 @@
 //! Figures for BENCHMARKS.md: verifier throughput and synthesis time.
 //! Run with `cargo bench --bench pipeline`; it prints one line per figure.
 
+mod common;
+use common::*;
+
 use oraculum::{
     build, lower, parse_spec, synthesize, verify, BuildOptions, Method, SynthLimits, VerifyOptions,
 };
 use std::time::Instant;
-
-/// A small deterministic generator (SplitMix64), so every run measures the same inputs.
-struct Mix(u64);
-impl Mix {
-    fn next(&mut self) -> u64 {
-        self.0 = self.0.wrapping_add(0x9e37_79b9_7f4a_7c15);
-        let mut z = self.0;
-        z = (z ^ (z >> 30)).wrapping_mul(0xbf58_476d_1ce4_e5b9);
-        z = (z ^ (z >> 27)).wrapping_mul(0x94d0_49bb_1331_11eb);
-        z ^ (z >> 31)
-    }
-}
-
-fn names(n: usize) -> String {
-    (0..n)
-        .map(|i| format!("\"v{i}\""))
-        .collect::<Vec<_>>()
-        .join(", ")
-}
 
 /// A 20-input, one-output spec: XOR of 200 random products of 2 to 5 inputs.
 fn spec_20(rng: &mut Mix) -> String {

@@ -1,19 +1,11 @@
 //! Transformation-based and exact synthesis against the known optima, for
 //! BENCHMARKS.md. Run with `cargo bench --bench transform`.
 
+mod common;
+use common::*;
+
 use oraculum::{lower, optimize, transform_with, Circuit, Exact3, Permutation};
 use std::time::Instant;
-
-struct Mix(u64);
-impl Mix {
-    fn next(&mut self) -> u64 {
-        self.0 = self.0.wrapping_add(0x9e37_79b9_7f4a_7c15);
-        let mut z = self.0;
-        z = (z ^ (z >> 30)).wrapping_mul(0xbf58_476d_1ce4_e5b9);
-        z = (z ^ (z >> 27)).wrapping_mul(0x94d0_49bb_1331_11eb);
-        z ^ (z >> 31)
-    }
-}
 
 fn all_perms(n: usize) -> Vec<Vec<u64>> {
     let mut out = Vec::new();

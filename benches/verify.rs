@@ -3,23 +3,15 @@
 //! all in one run; then SAT equivalence time for wide adders.
 //! Run with `cargo bench --bench verify`.
 
+mod common;
+use common::*;
+
 use oraculum::{
     build_one, lower, parse_spec, synthesize, verify, BuildOptions, Method, Route, SynthLimits,
     Verdict, VerifyOptions, BLOCK_WORDS,
 };
 use std::hint::black_box;
 use std::time::Instant;
-
-struct Mix(u64);
-impl Mix {
-    fn next(&mut self) -> u64 {
-        self.0 = self.0.wrapping_add(0x9e37_79b9_7f4a_7c15);
-        let mut z = self.0;
-        z = (z ^ (z >> 30)).wrapping_mul(0xbf58_476d_1ce4_e5b9);
-        z = (z ^ (z >> 27)).wrapping_mul(0x94d0_49bb_1331_11eb);
-        z ^ (z >> 31)
-    }
-}
 
 fn spec_text(rng: &mut Mix, n: usize, terms: usize) -> String {
     let names: Vec<String> = (0..n).map(|i| format!("\"v{i}\"")).collect();

@@ -37,7 +37,7 @@ pub use circuit::{Circuit, Control, Cost, Gate, Line, LineInfo, LineOutOfRange, 
 pub use export::{draw_svg, draw_text, listing, read_qasm, write_qasm, QasmHeader, WriteError};
 pub use logic::{
     parse_expr, third, Cube, Esop, Expr, ExprError, Lit, Literal, Network, Node, Permutation,
-    PermutationError, TableError, TruthTable, MAX_PERMUTATION_WIDTH, MAX_TABLE_VARS,
+    PermutationError, TableError, TruthTable, MAX_PERMUTATION_WIDTH, MAX_TABLE_VARS, VAR_PATTERN,
 };
 pub use lower::{lower, ANCILLA_REGISTER};
 pub use mutate::{mutants, Fault};
@@ -56,9 +56,9 @@ pub use synth::{
     arith_lines, arithmetic, bennett, bennett_counts, candidates, esop_circuit, esop_of,
     exact_esop, exorlink_minimize, function_lines, hierarchical, library, minimize_tables,
     network_of, permutation_lines, reed_muller, reed_muller_coefficients, synthesize, transform,
-    transform_function, transform_with, EsopTable, Exact3, ExactEsop, Method, Registers,
-    SynthError, SynthLimits, Synthesis, EXACT_ESOP_MAX_INPUTS, EXORLINK_MAX_TERMS, EXORLINK_WORK,
-    PIECE_INPUTS, TRANSFORM_MAX_LINES,
+    transform_function, transform_with, xor_embedding, EsopTable, Exact3, ExactEsop, Method,
+    Registers, SynthError, SynthLimits, Synthesis, EXACT_ESOP_MAX_INPUTS, EXORLINK_MAX_TERMS,
+    EXORLINK_WORK, PIECE_INPUTS, TRANSFORM_MAX_LINES,
 };
 pub use verify::{
     fingerprint, free_lines, merge_shards, sat_equivalence, verify, verify_shard,

@@ -79,7 +79,7 @@ impl Cube {
                 if (self.care >> i) & 1 == 0 {
                     continue;
                 }
-                let pattern = if let Some(&p) = WORD_PATTERN.get(i) {
+                let pattern = if let Some(&p) = super::VAR_PATTERN.get(i) {
                     p
                 } else if (w >> (i - 6)) & 1 == 1 {
                     !0
@@ -111,15 +111,6 @@ pub fn third(a: Literal, b: Literal) -> Literal {
         (x, _) => x,
     }
 }
-
-const WORD_PATTERN: [u64; 6] = [
-    0xaaaa_aaaa_aaaa_aaaa,
-    0xcccc_cccc_cccc_cccc,
-    0xf0f0_f0f0_f0f0_f0f0,
-    0xff00_ff00_ff00_ff00,
-    0xffff_0000_ffff_0000,
-    0xffff_ffff_0000_0000,
-];
 
 /// A multi-output ESOP: each term is a cube and the set of outputs it feeds
 /// (bit `j` of the mask for output `j`).

@@ -29,16 +29,6 @@ pub struct ExprError {
     pub message: String,
 }
 
-/// The 64-input pattern of variable `j < 6` inside one machine word.
-const PATTERN: [u64; 6] = [
-    0xaaaa_aaaa_aaaa_aaaa,
-    0xcccc_cccc_cccc_cccc,
-    0xf0f0_f0f0_f0f0_f0f0,
-    0xff00_ff00_ff00_ff00,
-    0xffff_0000_ffff_0000,
-    0xffff_ffff_0000_0000,
-];
-
 impl Expr {
     /// Value on input index `x`.
     pub fn eval(&self, x: u64) -> bool {
@@ -62,7 +52,7 @@ impl Expr {
                     0
                 }
             }
-            Expr::Var(j) if *j < 6 => PATTERN[*j],
+            Expr::Var(j) if *j < 6 => super::VAR_PATTERN[*j],
             Expr::Var(j) => {
                 if (w >> (j - 6)) & 1 == 1 {
                     !0

@@ -10,4 +10,4 @@ pub use esop::{third, Cube, Esop, Literal};
 pub use expr::{parse_expr, Expr, ExprError};
 pub use network::{Lit, Network, Node};
 pub use perm::{Permutation, PermutationError, MAX_PERMUTATION_WIDTH};
-pub use table::{TableError, TruthTable, MAX_TABLE_VARS};
+pub use table::{TableError, TruthTable, MAX_TABLE_VARS, VAR_PATTERN};

@@ -3,6 +3,17 @@
 use super::Expr;
 use bitvec::prelude::*;
 
+/// Bit `k` of `VAR_PATTERN[i]` is bit `i` of `k`: input `i < 6` across the 64
+/// entries of one table word.
+pub const VAR_PATTERN: [u64; 6] = [
+    0xaaaa_aaaa_aaaa_aaaa,
+    0xcccc_cccc_cccc_cccc,
+    0xf0f0_f0f0_f0f0_f0f0,
+    0xff00_ff00_ff00_ff00,
+    0xffff_0000_ffff_0000,
+    0xffff_ffff_0000_0000,
+];
+
 /// The most inputs a truth table may have (2^30 bits = 128 MiB).
 pub const MAX_TABLE_VARS: usize = 30;
 

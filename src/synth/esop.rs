@@ -24,7 +24,7 @@
 
 use super::{function_lines, reed_muller_coefficients, SynthError, SynthLimits};
 use crate::circuit::{Circuit, Control, Gate, Line, LineInfo, Role};
-use crate::logic::{third, Cube, Esop, Literal, TruthTable, MAX_TABLE_VARS};
+use crate::logic::{third, Cube, Esop, Literal, TruthTable, VAR_PATTERN};
 use crate::lower::ANCILLA_REGISTER;
 use crate::spec::FunctionSpec;
 use std::collections::HashMap;
@@ -48,14 +48,7 @@ pub fn esop(f: &FunctionSpec, limits: &SynthLimits) -> Result<Circuit, SynthErro
 /// The heuristic's ESOP for every output of `f`.
 pub fn esop_of(f: &FunctionSpec, limits: &SynthLimits) -> Result<Esop, SynthError> {
     let n = f.inputs.len();
-    if n > limits.max_table_inputs.min(MAX_TABLE_VARS) {
-        return Err(SynthError::Limit {
-            what: "the number of inputs for a truth-table method",
-            value: n,
-            limit: limits.max_table_inputs.min(MAX_TABLE_VARS),
-            flag: "--max-inputs",
-        });
-    }
+    super::check_table_inputs(n, limits)?;
     let tables: Vec<TruthTable> = (0..f.outputs.len())
         .map(|j| f.table(j).expect("within the table limit"))
         .collect();
@@ -98,7 +91,7 @@ fn flip_inputs(t: &TruthTable, p: u32) -> TruthTable {
     let mut g = t.clone();
     let n = t.vars();
     let words = g.words_mut();
-    for (i, &m) in LOW.iter().enumerate().take(n.min(6)) {
+    for (i, &m) in VAR_PATTERN.iter().enumerate().take(n.min(6)) {
         if (p >> i) & 1 == 1 {
             let s = 1u32 << i;
             for w in words.iter_mut() {
@@ -118,16 +111,6 @@ fn flip_inputs(t: &TruthTable, p: u32) -> TruthTable {
     }
     g
 }
-
-/// Bits of positions whose bit `i` is set, inside one word.
-const LOW: [u64; 6] = [
-    0xaaaa_aaaa_aaaa_aaaa,
-    0xcccc_cccc_cccc_cccc,
-    0xf0f0_f0f0_f0f0_f0f0,
-    0xff00_ff00_ff00_ff00,
-    0xffff_0000_ffff_0000,
-    0xffff_ffff_0000_0000,
-];
 
 /// The cubes of the fixed-polarity Reed-Muller form with polarity `p` (bit `i`
 /// set: input `i` appears complemented).

@@ -16,7 +16,9 @@ pub use esop::{
 pub use esop_exact::{exact_esop, EsopTable, ExactEsop, EXACT_ESOP_MAX_INPUTS};
 pub use exact::{library, Exact3};
 pub use reed_muller::{reed_muller, reed_muller_coefficients};
-pub use transform::{transform, transform_function, transform_with, TRANSFORM_MAX_LINES};
+pub use transform::{
+    transform, transform_function, transform_with, xor_embedding, TRANSFORM_MAX_LINES,
+};
 
 use crate::circuit::{Circuit, LineInfo, Role};
 use crate::spec::{FunctionSpec, Spec, SpecBody};
@@ -300,18 +302,7 @@ pub fn synthesize(
             if n + m > 3 {
                 return Err(exact_refused());
             }
-            let tables: Vec<_> = (0..m).map(|j| f.table(j).expect("at most 3 inputs")).collect();
-            let images: Vec<u64> = (0..1u64 << (n + m))
-                .map(|s| {
-                    let x = s & ((1 << n) - 1);
-                    let fx = tables
-                        .iter()
-                        .enumerate()
-                        .fold(0u64, |a, (j, t)| a | (t.get(x as usize) as u64) << j);
-                    s ^ (fx << n)
-                })
-                .collect();
-            exact_circuit(&images, n + m, function_lines(f))
+            exact_circuit(&transform::xor_embedding(f), n + m, function_lines(f))
         }
         (SpecBody::Function(f), Method::Transform | Method::TransformBidir) => {
             let c = transform_function(f, method == Method::TransformBidir)?;
@@ -418,6 +409,20 @@ fn esop_exact_circuit(f: &FunctionSpec, limits: &SynthLimits) -> Result<Synthesi
         circuit: esop_circuit(f, &r.esop),
         notes,
     })
+}
+
+/// Refuses a truth-table method past `--max-inputs` (and the table limit).
+pub(crate) fn check_table_inputs(n: usize, limits: &SynthLimits) -> Result<(), SynthError> {
+    let limit = limits.max_table_inputs.min(crate::logic::MAX_TABLE_VARS);
+    if n > limit {
+        return Err(SynthError::Limit {
+            what: "the number of inputs for a truth-table method",
+            value: n,
+            limit,
+            flag: "--max-inputs",
+        });
+    }
+    Ok(())
 }
 
 fn check_gates(c: &Circuit, limits: &SynthLimits) -> Result<(), SynthError> {

@@ -16,18 +16,8 @@
 
 use super::{function_lines, SynthError, SynthLimits};
 use crate::circuit::{Circuit, Control, Gate, Line};
-use crate::logic::{TruthTable, MAX_TABLE_VARS};
+use crate::logic::{TruthTable, VAR_PATTERN};
 use crate::spec::FunctionSpec;
-
-/// Variable `i < 6` pattern inside a 64-bit word.
-const PATTERN: [u64; 6] = [
-    0xaaaa_aaaa_aaaa_aaaa,
-    0xcccc_cccc_cccc_cccc,
-    0xf0f0_f0f0_f0f0_f0f0,
-    0xff00_ff00_ff00_ff00,
-    0xffff_0000_ffff_0000,
-    0xffff_ffff_0000_0000,
-];
 
 /// The positive-polarity Reed-Muller coefficients of `t`: bit `s` is set when the
 /// monomial of the variables in `s` appears.
@@ -35,7 +25,7 @@ pub fn reed_muller_coefficients(t: &TruthTable) -> TruthTable {
     let mut c = t.clone();
     let n = c.vars();
     let words = c.words_mut();
-    for (i, &pattern) in PATTERN.iter().enumerate().take(n.min(6)) {
+    for (i, &pattern) in VAR_PATTERN.iter().enumerate().take(n.min(6)) {
         for w in words.iter_mut() {
             *w ^= (*w << (1 << i)) & pattern;
         }
@@ -75,14 +65,7 @@ fn monomials_in_order(coeffs: &TruthTable, mut emit: impl FnMut(u64)) {
 /// Builds the oracle for `f` from the Reed-Muller form of each output.
 pub fn reed_muller(f: &FunctionSpec, limits: &SynthLimits) -> Result<Circuit, SynthError> {
     let n = f.inputs.len();
-    if n > limits.max_table_inputs.min(MAX_TABLE_VARS) {
-        return Err(SynthError::Limit {
-            what: "the number of inputs for a truth-table method",
-            value: n,
-            limit: limits.max_table_inputs.min(MAX_TABLE_VARS),
-            flag: "--max-inputs",
-        });
-    }
+    super::check_table_inputs(n, limits)?;
     let mut circuit = Circuit::new(function_lines(f));
     let mut gates = 0usize;
     for j in 0..f.outputs.len() {

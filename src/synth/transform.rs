@@ -119,6 +119,26 @@ pub fn transform_with(p: &Permutation, bidirectional: bool) -> Circuit {
     c
 }
 
+/// The xor embedding `|x, y> -> |x, y XOR f(x)>` of a function as images on
+/// its `x` and `y` lines (state bit `j < n` is `x[j]`, bit `n + k` is `y[k]`).
+/// The caller keeps `n + m` small: there are `2^(n + m)` images.
+pub fn xor_embedding(f: &FunctionSpec) -> Vec<u64> {
+    let (n, m) = (f.inputs.len(), f.outputs.len());
+    let tables: Vec<_> = (0..m)
+        .map(|j| f.table(j).expect("a small function has tables"))
+        .collect();
+    (0..1u64 << (n + m))
+        .map(|s| {
+            let x = s & ((1 << n) - 1);
+            let fx = tables
+                .iter()
+                .enumerate()
+                .fold(0u64, |acc, (j, t)| acc | (t.get(x as usize) as u64) << j);
+            s ^ (fx << n)
+        })
+        .collect()
+}
+
 /// A function through its xor embedding, a permutation of the `x` and `y` lines.
 pub fn transform_function(f: &FunctionSpec, bidirectional: bool) -> Result<Circuit, SynthError> {
     let n = f.inputs.len();
