@@ -61,8 +61,8 @@ pub use synth::{
     EXORLINK_WORK, PIECE_INPUTS, TRANSFORM_MAX_LINES,
 };
 pub use verify::{
-    fingerprint, free_lines, merge_shards, sat_equivalence, verify, verify_shard,
-    verify_with_progress, Counterexample, RegisterValue, Route, SatError, SatOutcome, ShardError,
-    ShardResult, Verdict, VerifyError, VerifyOptions, BLOCK_WORDS, DEFAULT_MAX_STATES,
+    circuits_equivalent, fingerprint, free_lines, merge_shards, sat_equivalence, verify,
+    verify_shard, verify_with_progress, Counterexample, RegisterValue, Route, SatError, SatOutcome,
+    ShardError, ShardResult, Verdict, VerifyError, VerifyOptions, BLOCK_WORDS, DEFAULT_MAX_STATES,
     DEFAULT_SAT_SECONDS, SAT_MAX_TABLE_INPUTS, SHARD_FORMAT,
 };

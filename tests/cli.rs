@@ -314,7 +314,22 @@ fn bad_spec(spec: &str) -> (usize, usize, String) {
     let mut parts = rest.splitn(3, ':');
     let line = parts.next().unwrap().parse().unwrap();
     let col = parts.next().unwrap().parse().unwrap();
-    assert!(err.contains('^'), "a caret marks the column: {err}");
+    // The snippet: `N | <the line>` and below it a caret under the column.
+    let lines: Vec<&str> = err.lines().collect();
+    let shown = lines
+        .iter()
+        .position(|l| l.starts_with(&format!("{line} | ")))
+        .unwrap_or_else(|| panic!("the offending line is shown: {err}"));
+    let source_line = &lines[shown][format!("{line} | ").len()..];
+    assert_eq!(source_line, spec.lines().nth(line - 1).unwrap(), "{err}");
+    let caret_line = lines[shown + 1];
+    let gutter = format!("{line} | ").chars().count();
+    let caret_at = caret_line.chars().position(|c| c == '^').expect("a caret");
+    assert_eq!(
+        caret_at - gutter + 1,
+        col,
+        "the caret sits under column {col}: {err}"
+    );
     (line, col, err)
 }
 
@@ -587,5 +602,50 @@ fn sat_route_from_the_command_line() {
             "proof",
         ],
     );
+    assert_eq!(o.status.code(), Some(2));
+}
+
+#[test]
+fn a_circuit_against_another_circuit() {
+    let dir = workspace();
+    for (m, out) in [
+        ("transform", "t.qasm"),
+        ("transform-bidir", "b.qasm"),
+        ("exact", "e.qasm"),
+    ] {
+        let o = run_in(
+            dir.path(),
+            &["synth", "specs/dice-shuffle.toml", "--method", m, "-o", out],
+        );
+        assert_eq!(o.status.code(), Some(0), "{m}");
+    }
+    let o = run_in(dir.path(), &["verify", "t.qasm", "--against", "b.qasm"]);
+    assert_eq!(o.status.code(), Some(0), "{:?}", text(&o));
+    assert!(text(&o).0.contains("equivalent"));
+    let o = run_in(
+        dir.path(),
+        &["verify", "e.qasm", "--against", "t.qasm", "--json"],
+    );
+    let v: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
+    assert_eq!(v["verdict"], "proven");
+    // Another function on the same registers differs, with a counterexample.
+    std::fs::write(
+        dir.path().join("p.toml"),
+        "kind = \"permutation\"\nwidth = 3\nimages = [5, 2, 7, 0, 6, 1, 3, 4]\n",
+    )
+    .unwrap();
+    let o = run_in(dir.path(), &["synth", "p.toml", "-o", "p.qasm"]);
+    assert_eq!(o.status.code(), Some(0));
+    let o = run_in(dir.path(), &["verify", "p.qasm", "--against", "t.qasm"]);
+    assert_eq!(o.status.code(), Some(1));
+    let (out, _) = text(&o);
+    assert!(out.contains("differs"), "{out}");
+    // Registers that do not match are bad input.
+    let o = run_in(
+        dir.path(),
+        &["synth", "specs/greenhouse.toml", "-o", "g.qasm"],
+    );
+    assert_eq!(o.status.code(), Some(0));
+    let o = run_in(dir.path(), &["verify", "g.qasm", "--against", "t.qasm"]);
     assert_eq!(o.status.code(), Some(2));
 }

@@ -76,8 +76,11 @@ enum Command {
         /// The circuit (OpenQASM 2 with x, cx, ccx).
         circuit: PathBuf,
         /// The spec it should realize.
+        #[arg(long, required_unless_present = "against", conflicts_with = "against")]
+        spec: Option<PathBuf>,
+        /// Another circuit it should be equivalent to (proven by SAT).
         #[arg(long)]
-        spec: PathBuf,
+        against: Option<PathBuf>,
         /// Print the verdict as one JSON object.
         #[arg(long)]
         json: bool,
@@ -276,6 +279,7 @@ fn dispatch(cmd: Command) -> Result<i32, Failure> {
         Command::Verify {
             circuit,
             spec,
+            against,
             json,
             max_states,
             method,
@@ -288,9 +292,13 @@ fn dispatch(cmd: Command) -> Result<i32, Failure> {
                 route: route(&method)?,
                 sat_seconds,
             };
-            match shard {
-                Some(k) => verify_shard_file(&circuit, &spec, &k, output.as_deref(), &opts),
-                None => verify_file(&circuit, &spec, json, &opts),
+            match (spec, against) {
+                (_, Some(other)) => verify_against(&circuit, &other, json, &opts),
+                (Some(spec), None) => match shard {
+                    Some(k) => verify_shard_file(&circuit, &spec, &k, output.as_deref(), &opts),
+                    None => verify_file(&circuit, &spec, json, &opts),
+                },
+                (None, None) => Err(Failure::bad("verify needs --spec or --against")),
             }
         }
         Command::Merge { results, json } => merge(&results, json),
@@ -733,6 +741,68 @@ fn merge(paths: &[PathBuf], json: bool) -> Result<i32, Failure> {
         }
     }
     Ok(if matches!(v, Verdict::Refuted { .. }) {
+        code::REFUTED
+    } else {
+        code::DONE
+    })
+}
+
+fn verify_against(
+    circuit: &Path,
+    other: &Path,
+    json: bool,
+    opts: &VerifyOptions,
+) -> Result<i32, Failure> {
+    let a = load_circuit(circuit)?;
+    let b = load_circuit(other)?;
+    let budget = std::time::Duration::from_secs_f64(opts.sat_seconds.max(0.0));
+    let free_bits = a
+        .registers()
+        .iter()
+        .filter(|(n, _)| n != "anc")
+        .map(|(_, s)| *s as u32)
+        .sum();
+    let verdict = match oraculum::circuits_equivalent(&a, &b, budget) {
+        Ok(oraculum::SatOutcome::Equivalent) => Verdict::Proven {
+            by: "sat",
+            free_bits,
+            states: 0,
+            outside_domain: 0,
+        },
+        Ok(oraculum::SatOutcome::Counterexample(c)) => Verdict::Refuted {
+            counterexample: Box::new(c),
+        },
+        Ok(oraculum::SatOutcome::Timeout) => {
+            return Err(verify_failure(
+                circuit,
+                VerifyError::SatTimeout(opts.sat_seconds),
+            ))
+        }
+        Err(e) => return Err(verify_failure(circuit, e.into())),
+    };
+    if json {
+        let mut v = serde_json::to_value(&verdict).unwrap_or_default();
+        if let Some(obj) = v.as_object_mut() {
+            obj.insert("circuit".into(), json!(circuit.display().to_string()));
+            obj.insert("against".into(), json!(other.display().to_string()));
+        }
+        println!("{}", serde_json::to_string_pretty(&v).unwrap_or_default());
+    } else {
+        match &verdict {
+            Verdict::Proven { .. } => println!(
+                "{}: equivalent to {}, {}",
+                circuit.display(),
+                other.display(),
+                verdict.summary()
+            ),
+            Verdict::Refuted { counterexample } => println!(
+                "{}: differs from {}\n{counterexample}",
+                circuit.display(),
+                other.display()
+            ),
+        }
+    }
+    Ok(if matches!(verdict, Verdict::Refuted { .. }) {
         code::REFUTED
     } else {
         code::DONE

@@ -15,7 +15,7 @@
 mod sat;
 mod shard;
 
-pub use sat::{sat_equivalence, SatError, SatOutcome, SAT_MAX_TABLE_INPUTS};
+pub use sat::{circuits_equivalent, sat_equivalence, SatError, SatOutcome, SAT_MAX_TABLE_INPUTS};
 pub use shard::{fingerprint, merge_shards, verify_shard, ShardError, ShardResult, SHARD_FORMAT};
 
 use crate::circuit::Circuit;

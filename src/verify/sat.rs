@@ -658,3 +658,150 @@ fn reference_bits(spec: &Spec, free: &[bool]) -> Option<Vec<bool>> {
         }
     }
 }
+
+/// Checks that circuit `a` does what circuit `b` does: on every basis state of
+/// their shared registers (every register but `anc`, which must have the same
+/// names and sizes in both), with ancillae starting at 0, `a` gives the same
+/// values as `b` on those registers and returns its own ancillae to 0.
+pub fn circuits_equivalent(
+    a: &Circuit,
+    b: &Circuit,
+    budget: Duration,
+) -> Result<SatOutcome, SatError> {
+    let regs = |c: &Circuit| -> Vec<(String, usize)> {
+        c.registers()
+            .into_iter()
+            .filter(|(n, _)| n != "anc")
+            .collect()
+    };
+    let (ra, rb) = (regs(a), regs(b));
+    let mut sa = ra.clone();
+    let mut sb = rb.clone();
+    sa.sort();
+    sb.sort();
+    if sa != sb {
+        return Err(SatError::Binding(format!(
+            "the circuits' registers differ: {ra:?} against {rb:?}"
+        )));
+    }
+    let free_a: Vec<usize> = ra
+        .iter()
+        .flat_map(|(n, _)| a.register(n))
+        .map(|l| l.index())
+        .collect();
+    let free_b: Vec<usize> = ra
+        .iter()
+        .flat_map(|(n, _)| b.register(n))
+        .map(|l| l.index())
+        .collect();
+    let mut cnf = Cnf::new(budget);
+    let free: Vec<i32> = free_a.iter().map(|_| cnf.var()).collect();
+    let run = |cnf: &mut Cnf, c: &Circuit, lines: &[usize]| -> Vec<i32> {
+        let mut line: Vec<i32> = vec![-cnf.truth; c.width()];
+        for (&l, &v) in lines.iter().zip(&free) {
+            line[l] = v;
+        }
+        for g in c.gates() {
+            let controls: Vec<i32> = g
+                .controls()
+                .iter()
+                .map(|x| {
+                    if x.positive {
+                        line[x.line.index()]
+                    } else {
+                        -line[x.line.index()]
+                    }
+                })
+                .collect();
+            let fire = cnf.and(&controls);
+            let t = g.target().index();
+            line[t] = cnf.xor(line[t], fire);
+        }
+        line
+    };
+    let out_a = run(&mut cnf, a, &free_a);
+    let out_b = run(&mut cnf, b, &free_b);
+    let mut diffs: Vec<i32> = free_a
+        .iter()
+        .zip(&free_b)
+        .map(|(&la, &lb)| cnf.xor(out_a[la], out_b[lb]))
+        .collect();
+    diffs.extend(a.register("anc").iter().map(|l| out_a[l.index()]));
+    let miter = cnf.or(&diffs);
+    cnf.s.add_clause([miter]);
+    match cnf.s.solve() {
+        None => Ok(SatOutcome::Timeout),
+        Some(false) => Ok(SatOutcome::Equivalent),
+        Some(true) => {
+            let input: Vec<bool> = free
+                .iter()
+                .map(|&v| cnf.s.value(v).unwrap_or(false))
+                .collect();
+            let sim = |c: &Circuit, lines: &[usize]| -> Vec<bool> {
+                let mut v = vec![false; c.width()];
+                for (&l, &x) in lines.iter().zip(&input) {
+                    v[l] = x;
+                }
+                for g in c.gates() {
+                    if g.controls().iter().all(|x| v[x.line.index()] == x.positive) {
+                        let t = g.target().index();
+                        v[t] = !v[t];
+                    }
+                }
+                v
+            };
+            let (va, vb) = (sim(a, &free_a), sim(b, &free_b));
+            let show = |c: &Circuit, vals: &[bool], with_anc: bool| -> Vec<RegisterValue> {
+                c.registers()
+                    .into_iter()
+                    .filter(|(n, _)| with_anc || n != "anc")
+                    .map(|(n, _)| {
+                        let bits: Vec<bool> =
+                            c.register(&n).iter().map(|l| vals[l.index()]).collect();
+                        RegisterValue::new(&n, &bits)
+                    })
+                    .collect()
+            };
+            let differing = free_a
+                .iter()
+                .zip(&free_b)
+                .find(|(&la, &lb)| va[la] != vb[lb]);
+            let problem = match differing {
+                Some((&la, _)) => {
+                    let info = &a.lines()[la];
+                    format!(
+                        "{}[{}] differs between the circuits",
+                        info.register, info.index
+                    )
+                }
+                None => match a.register("anc").iter().find(|l| va[l.index()]) {
+                    Some(l) => format!(
+                        "anc[{}] is 1: ancilla is not returned to 0",
+                        a.lines()[l.index()].index
+                    ),
+                    None => {
+                        return Err(SatError::Unconfirmed(
+                            "simulation shows the circuits agree on the solver's input".into(),
+                        ))
+                    }
+                },
+            };
+            let mut before = vec![false; a.width()];
+            for (&l, &x) in free_a.iter().zip(&input) {
+                before[l] = x;
+            }
+            Ok(SatOutcome::Counterexample(Counterexample {
+                state: (input.len() <= 64).then(|| {
+                    input
+                        .iter()
+                        .enumerate()
+                        .fold(0u64, |s, (i, &x)| s | (x as u64) << i)
+                }),
+                input: show(a, &before, false),
+                expected: show(b, &vb, false),
+                actual: show(a, &va, true),
+                problem,
+            }))
+        }
+    }
+}
