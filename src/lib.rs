@@ -53,12 +53,12 @@ pub use spec::{
     OutputDef, Source, Spec, SpecBody, MAX_ARITH_WIDTH,
 };
 pub use synth::{
-    arith_lines, arithmetic, bennett, bennett_counts, candidates, esop_circuit, esop_of,
-    exact_esop, exorlink_minimize, function_lines, hierarchical, library, minimize_tables,
+    arith_lines, arithmetic, bennett, bennett_counts, cache_path, candidates, esop_circuit,
+    esop_of, exact_esop, exorlink_minimize, function_lines, hierarchical, library, minimize_tables,
     network_of, permutation_lines, reed_muller, reed_muller_coefficients, synthesize, transform,
-    transform_function, transform_with, xor_embedding, EsopTable, Exact3, ExactEsop, Method,
-    Registers, SynthError, SynthLimits, Synthesis, EXACT_ESOP_MAX_INPUTS, EXORLINK_MAX_TERMS,
-    EXORLINK_WORK, PIECE_INPUTS, TRANSFORM_MAX_LINES,
+    transform_function, transform_with, xor_embedding, EsopTable, Exact3, Exact4, Exact4Result,
+    ExactEsop, Method, Registers, SynthError, SynthLimits, Synthesis, EXACT_ESOP_MAX_INPUTS,
+    EXORLINK_MAX_TERMS, EXORLINK_WORK, HALF, PIECE_INPUTS, TRANSFORM_MAX_LINES,
 };
 pub use verify::{
     circuits_equivalent, fingerprint, free_lines, merge_shards, sat_equivalence, verify,

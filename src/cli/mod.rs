@@ -494,7 +494,10 @@ fn synth(
         oraculum::Verification::Ran(v) => v.summary(),
         _ => "NOT verified (--no-verify)".to_string(),
     };
-    let summary = format!("{label}: method {}, {verdict}\n{}\n", out.method, out.cost);
+    let mut summary = format!("{label}: method {}, {verdict}\n{}\n", out.method, out.cost);
+    for n in &out.notes {
+        summary.push_str(&format!("  note: {n}\n"));
+    }
     match output {
         Some(p) => {
             print!("{summary}");
