@@ -15,6 +15,10 @@ fn repo() -> PathBuf {
 fn run_in(dir: &Path, args: &[&str]) -> Output {
     bin()
         .current_dir(dir)
+        .env(
+            "ORACULUM_CACHE",
+            std::env::temp_dir().join("oraculum-test-cache"),
+        )
         .args(args)
         .output()
         .expect("the binary runs")

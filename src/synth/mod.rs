@@ -257,7 +257,7 @@ pub fn candidates(spec: &Spec, thorough: bool) -> Vec<Method> {
             }
             v
         }
-        SpecBody::Permutation(p) if p.width() <= 3 => {
+        SpecBody::Permutation(p) if p.width() <= 4 => {
             vec![Method::Transform, Method::TransformBidir, Method::Exact]
         }
         SpecBody::Permutation(_) => vec![Method::Transform, Method::TransformBidir],
