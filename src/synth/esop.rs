@@ -75,15 +75,7 @@ pub fn minimize_tables(tables: &[TruthTable]) -> Esop {
 
 fn check_terms(e: &Esop, limits: &SynthLimits) -> Result<(), SynthError> {
     let gates: usize = e.terms.iter().map(|(_, o)| o.count_ones() as usize).sum();
-    if gates > limits.max_gates {
-        return Err(SynthError::Limit {
-            what: "the gate count before lowering",
-            value: gates,
-            limit: limits.max_gates,
-            flag: "--max-gates",
-        });
-    }
-    Ok(())
+    super::check_gate_count(gates, limits)
 }
 
 /// `g(z) = f(z ^ p)`: the table with inputs flipped by the mask `p`.

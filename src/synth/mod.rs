@@ -471,10 +471,15 @@ pub(crate) fn check_table_inputs(n: usize, limits: &SynthLimits) -> Result<(), S
 }
 
 fn check_gates(c: &Circuit, limits: &SynthLimits) -> Result<(), SynthError> {
-    if c.gates().len() > limits.max_gates {
+    check_gate_count(c.gates().len(), limits)
+}
+
+/// Refuses a circuit of more than `--max-gates` gates before lowering.
+pub(crate) fn check_gate_count(gates: usize, limits: &SynthLimits) -> Result<(), SynthError> {
+    if gates > limits.max_gates {
         return Err(SynthError::Limit {
             what: "the gate count before lowering",
-            value: c.gates().len(),
+            value: gates,
             limit: limits.max_gates,
             flag: "--max-gates",
         });

@@ -74,14 +74,7 @@ pub fn reed_muller(f: &FunctionSpec, limits: &SynthLimits) -> Result<Circuit, Sy
             .expect("the input count is within the table limit, checked above");
         let coeffs = reed_muller_coefficients(&table);
         gates += coeffs.count_ones();
-        if gates > limits.max_gates {
-            return Err(SynthError::Limit {
-                what: "the gate count before lowering",
-                value: gates,
-                limit: limits.max_gates,
-                flag: "--max-gates",
-            });
-        }
+        super::check_gate_count(gates, limits)?;
         let target = Line((n + j) as u32);
         monomials_in_order(&coeffs, |s| {
             let controls = (0..n as u32)

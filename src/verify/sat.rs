@@ -134,6 +134,32 @@ impl Cnf {
         self.s.add_clause([z, a, -b]);
         z
     }
+    /// The final literal of every line of `c`: `lines[k]` starts as `vars[k]`,
+    /// every other line at 0, and each gate is `t' = t XOR AND(controls)`.
+    fn circuit(&mut self, c: &Circuit, lines: &[usize], vars: &[i32]) -> Vec<i32> {
+        let mut line: Vec<i32> = vec![-self.truth; c.width()];
+        for (&l, &v) in lines.iter().zip(vars) {
+            line[l] = v;
+        }
+        for g in c.gates() {
+            let controls: Vec<i32> = g
+                .controls()
+                .iter()
+                .map(|x| {
+                    if x.positive {
+                        line[x.line.index()]
+                    } else {
+                        -line[x.line.index()]
+                    }
+                })
+                .collect();
+            let fire = self.and(&controls);
+            let t = g.target().index();
+            line[t] = self.xor(line[t], fire);
+        }
+        line
+    }
+
     fn mux(&mut self, sel: i32, one: i32, zero: i32) -> i32 {
         let a = self.and(&[sel, one]);
         let b = self.and(&[-sel, zero]);
@@ -401,27 +427,7 @@ pub fn sat_equivalence(
     let mut cnf = Cnf::new(budget);
     let free: Vec<i32> = binding.free.iter().map(|_| cnf.var()).collect();
     let (want, domain) = expected(&mut cnf, spec, &free)?;
-    // The circuit.
-    let mut line: Vec<i32> = vec![-cnf.truth; circuit.width()];
-    for (&l, &v) in binding.free.iter().zip(&free) {
-        line[l] = v;
-    }
-    for g in circuit.gates() {
-        let controls: Vec<i32> = g
-            .controls()
-            .iter()
-            .map(|c| {
-                if c.positive {
-                    line[c.line.index()]
-                } else {
-                    -line[c.line.index()]
-                }
-            })
-            .collect();
-        let fire = cnf.and(&controls);
-        let t = g.target().index();
-        line[t] = cnf.xor(line[t], fire);
-    }
+    let line = cnf.circuit(circuit, &binding.free, &free);
     let mut diffs: Vec<i32> = binding
         .free
         .iter()
@@ -696,31 +702,8 @@ pub fn circuits_equivalent(
         .collect();
     let mut cnf = Cnf::new(budget);
     let free: Vec<i32> = free_a.iter().map(|_| cnf.var()).collect();
-    let run = |cnf: &mut Cnf, c: &Circuit, lines: &[usize]| -> Vec<i32> {
-        let mut line: Vec<i32> = vec![-cnf.truth; c.width()];
-        for (&l, &v) in lines.iter().zip(&free) {
-            line[l] = v;
-        }
-        for g in c.gates() {
-            let controls: Vec<i32> = g
-                .controls()
-                .iter()
-                .map(|x| {
-                    if x.positive {
-                        line[x.line.index()]
-                    } else {
-                        -line[x.line.index()]
-                    }
-                })
-                .collect();
-            let fire = cnf.and(&controls);
-            let t = g.target().index();
-            line[t] = cnf.xor(line[t], fire);
-        }
-        line
-    };
-    let out_a = run(&mut cnf, a, &free_a);
-    let out_b = run(&mut cnf, b, &free_b);
+    let out_a = cnf.circuit(a, &free_a, &free);
+    let out_b = cnf.circuit(b, &free_b, &free);
     let mut diffs: Vec<i32> = free_a
         .iter()
         .zip(&free_b)
