@@ -77,16 +77,7 @@ pub fn lower(circuit: &Circuit) -> Circuit {
 mod tests {
     use super::*;
 
-    fn lines(n: usize) -> Vec<LineInfo> {
-        (0..n)
-            .map(|i| LineInfo {
-                register: "x".into(),
-                index: i as u32,
-                role: Role::Data,
-                label: String::new(),
-            })
-            .collect()
-    }
+    use crate::circuit::test_lines as lines;
 
     // A k-control NOT costs 2k - 3 Toffolis with k - 2 clean ancillae
     // (Barenco et al. 1995, as cited in checks.md).

@@ -281,6 +281,19 @@ impl Circuit {
     }
 }
 
+/// `n` data lines `q[0..n]`, for unit tests.
+#[cfg(test)]
+pub(crate) fn test_lines(n: usize) -> Vec<LineInfo> {
+    (0..n)
+        .map(|i| LineInfo {
+            register: "q".into(),
+            index: i as u32,
+            role: Role::Data,
+            label: String::new(),
+        })
+        .collect()
+}
+
 impl fmt::Display for Gate {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
         for c in &self.controls {

@@ -247,18 +247,8 @@ pub fn optimize(circuit: &mut Circuit) {
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::circuit::{LineInfo, Role};
 
-    fn lines(n: usize) -> Vec<LineInfo> {
-        (0..n)
-            .map(|i| LineInfo {
-                register: "q".into(),
-                index: i as u32,
-                role: Role::Data,
-                label: String::new(),
-            })
-            .collect()
-    }
+    use crate::circuit::test_lines as lines;
 
     #[test]
     fn cancels_through_commuting_gates_only() {

@@ -160,6 +160,25 @@ impl Cnf {
         line
     }
 
+    /// Asks for an assignment where some of `diffs` holds (and every literal of
+    /// `assume`). `None`: out of time; `Some(None)`: none exists; otherwise the
+    /// values of `free`.
+    fn find(&mut self, diffs: &[i32], assume: &[i32], free: &[i32]) -> Option<Option<Vec<bool>>> {
+        let miter = self.or(diffs);
+        self.s.add_clause([miter]);
+        for &d in assume {
+            self.s.add_clause([d]);
+        }
+        match self.s.solve()? {
+            false => Some(None),
+            true => Some(Some(
+                free.iter()
+                    .map(|&v| self.s.value(v).unwrap_or(false))
+                    .collect(),
+            )),
+        }
+    }
+
     fn mux(&mut self, sel: i32, one: i32, zero: i32) -> i32 {
         let a = self.and(&[sel, one]);
         let b = self.and(&[-sel, zero]);
@@ -435,43 +454,39 @@ pub fn sat_equivalence(
         .map(|(&l, &e)| cnf.xor(line[l], e))
         .collect();
     diffs.extend(binding.ancillae.iter().map(|&a| line[a]));
-    let miter = cnf.or(&diffs);
-    cnf.s.add_clause([miter]);
-    for d in domain {
-        cnf.s.add_clause([d]);
-    }
-    match cnf.s.solve() {
+    match cnf.find(&diffs, &domain, &free) {
         None => Ok(SatOutcome::Timeout),
-        Some(false) => Ok(SatOutcome::Equivalent),
-        Some(true) => {
-            let input: Vec<bool> = free
-                .iter()
-                .map(|&v| cnf.s.value(v).unwrap_or(false))
-                .collect();
-            confirm(circuit, spec, &binding, &input)
-        }
+        Some(None) => Ok(SatOutcome::Equivalent),
+        Some(Some(input)) => confirm(circuit, spec, &binding, &input),
     }
 }
 
 /// Simulates the circuit on the solver's input and checks, with plain bit
 /// arithmetic, that it really disagrees with the spec.
+/// Runs `c` on one basis state, line by line: `lines[k]` starts at `input[k]`,
+/// every other line at 0. Returns (lines before, lines after).
+fn simulate_bits(c: &Circuit, lines: &[usize], input: &[bool]) -> (Vec<bool>, Vec<bool>) {
+    let mut v = vec![false; c.width()];
+    for (&l, &x) in lines.iter().zip(input) {
+        v[l] = x;
+    }
+    let before = v.clone();
+    for g in c.gates() {
+        if g.controls().iter().all(|x| v[x.line.index()] == x.positive) {
+            let t = g.target().index();
+            v[t] = !v[t];
+        }
+    }
+    (before, v)
+}
+
 fn confirm(
     circuit: &Circuit,
     spec: &Spec,
     b: &Binding,
     input: &[bool],
 ) -> Result<SatOutcome, SatError> {
-    let mut v = vec![false; circuit.width()];
-    for (&l, &x) in b.free.iter().zip(input) {
-        v[l] = x;
-    }
-    let before = v.clone();
-    for g in circuit.gates() {
-        if g.controls().iter().all(|c| v[c.line.index()] == c.positive) {
-            let t = g.target().index();
-            v[t] = !v[t];
-        }
-    }
+    let (before, v) = simulate_bits(circuit, &b.free, input);
     let free_in: Vec<bool> = b.free.iter().map(|&l| before[l]).collect();
     let want = reference_bits(spec, &free_in);
     let mut want_lines = vec![false; circuit.width()];
@@ -710,30 +725,12 @@ pub fn circuits_equivalent(
         .map(|(&la, &lb)| cnf.xor(out_a[la], out_b[lb]))
         .collect();
     diffs.extend(a.register("anc").iter().map(|l| out_a[l.index()]));
-    let miter = cnf.or(&diffs);
-    cnf.s.add_clause([miter]);
-    match cnf.s.solve() {
+    match cnf.find(&diffs, &[], &free) {
         None => Ok(SatOutcome::Timeout),
-        Some(false) => Ok(SatOutcome::Equivalent),
-        Some(true) => {
-            let input: Vec<bool> = free
-                .iter()
-                .map(|&v| cnf.s.value(v).unwrap_or(false))
-                .collect();
-            let sim = |c: &Circuit, lines: &[usize]| -> Vec<bool> {
-                let mut v = vec![false; c.width()];
-                for (&l, &x) in lines.iter().zip(&input) {
-                    v[l] = x;
-                }
-                for g in c.gates() {
-                    if g.controls().iter().all(|x| v[x.line.index()] == x.positive) {
-                        let t = g.target().index();
-                        v[t] = !v[t];
-                    }
-                }
-                v
-            };
-            let (va, vb) = (sim(a, &free_a), sim(b, &free_b));
+        Some(None) => Ok(SatOutcome::Equivalent),
+        Some(Some(input)) => {
+            let (before, va) = simulate_bits(a, &free_a, &input);
+            let (_, vb) = simulate_bits(b, &free_b, &input);
             let show = |c: &Circuit, vals: &[bool], with_anc: bool| -> Vec<RegisterValue> {
                 c.registers()
                     .into_iter()
@@ -769,10 +766,6 @@ pub fn circuits_equivalent(
                     }
                 },
             };
-            let mut before = vec![false; a.width()];
-            for (&l, &x) in free_a.iter().zip(&input) {
-                before[l] = x;
-            }
             Ok(SatOutcome::Counterexample(Counterexample {
                 state: (input.len() <= 64).then(|| {
                     input

@@ -367,16 +367,7 @@ fn reduce_majority(p: Bit, q: Bit, r: Bit) -> Majority {
 mod tests {
     use super::*;
 
-    fn lines(n: usize) -> Vec<LineInfo> {
-        (0..n)
-            .map(|i| LineInfo {
-                register: "q".into(),
-                index: i as u32,
-                role: Role::Data,
-                label: String::new(),
-            })
-            .collect()
-    }
+    use crate::circuit::test_lines as lines;
 
     /// Every polarity of the three-literal majority, computed as a temporary and
     /// XORed into a target, on every basis state.
