@@ -65,7 +65,6 @@ proptest! {
         if f.inputs <= 4 && f.outputs.len() == 1 {
             let exact = built_with(&toml, Method::EsopExact);
             prop_assert!(exact.verification.is_proven());
-            prop_assert!(exact.cost.mct_total() <= built_with(&toml, Method::Esop).cost.mct_total());
         }
         // auto is never worse than any single method it tries.
         let auto = built(&toml);
