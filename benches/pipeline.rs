@@ -9,31 +9,6 @@ use oraculum::{
 };
 use std::time::Instant;
 
-/// A 20-input, one-output spec: XOR of 200 random products of 2 to 5 inputs.
-fn spec_20(rng: &mut Mix) -> String {
-    let terms: Vec<String> = (0..200)
-        .map(|_| {
-            let k = 2 + (rng.next() % 4) as usize;
-            let mut vars: Vec<usize> = Vec::new();
-            while vars.len() < k {
-                let v = (rng.next() % 20) as usize;
-                if !vars.contains(&v) {
-                    vars.push(v);
-                }
-            }
-            vars.iter()
-                .map(|v| format!("v{v}"))
-                .collect::<Vec<_>>()
-                .join(" & ")
-        })
-        .collect();
-    format!(
-        "kind = \"function\"\ninputs = [{}]\noutputs = [\"f\"]\n[expr]\nf = \"{}\"\n",
-        names(20),
-        terms.join(" ^ ")
-    )
-}
-
 /// A random `n`-input, one-output table spec.
 fn random_table(rng: &mut Mix, n: usize) -> String {
     let digits: String = (0..(1usize << n) / 4)
@@ -49,7 +24,7 @@ fn main() {
     let mut rng = Mix(2026);
     let threads = rayon::current_num_threads();
 
-    let spec = parse_spec("bench20", &spec_20(&mut rng)).unwrap();
+    let spec = parse_spec("bench20", &xor_of_products(&mut rng, 20, 200)).unwrap();
     let lowered = lower(
         &synthesize(&spec, Method::ReedMuller, &SynthLimits::default())
             .unwrap()

@@ -13,31 +13,6 @@ use oraculum::{
 use std::hint::black_box;
 use std::time::Instant;
 
-fn spec_text(rng: &mut Mix, n: usize, terms: usize) -> String {
-    let names: Vec<String> = (0..n).map(|i| format!("\"v{i}\"")).collect();
-    let t: Vec<String> = (0..terms)
-        .map(|_| {
-            let k = 2 + (rng.next() % 4) as usize;
-            let mut vars: Vec<usize> = Vec::new();
-            while vars.len() < k {
-                let v = (rng.next() % n as u64) as usize;
-                if !vars.contains(&v) {
-                    vars.push(v);
-                }
-            }
-            vars.iter()
-                .map(|v| format!("v{v}"))
-                .collect::<Vec<_>>()
-                .join(" & ")
-        })
-        .collect();
-    format!(
-        "kind = \"function\"\ninputs = [{}]\noutputs = [\"f\"]\n[expr]\nf = \"{}\"\n",
-        names.join(", "),
-        t.join(" ^ ")
-    )
-}
-
 fn best_of<T>(runs: usize, mut f: impl FnMut() -> T) -> (f64, T) {
     let mut best = f64::MAX;
     let mut last = None;
@@ -52,7 +27,7 @@ fn best_of<T>(runs: usize, mut f: impl FnMut() -> T) -> (f64, T) {
 
 fn main() {
     let mut rng = Mix(7);
-    let spec = parse_spec("bench", &spec_text(&mut rng, 20, 200)).unwrap();
+    let spec = parse_spec("bench", &xor_of_products(&mut rng, 20, 200)).unwrap();
     let c = lower(
         &synthesize(&spec, Method::ReedMuller, &SynthLimits::default())
             .unwrap()

@@ -1,46 +1,9 @@
 //! Runs the real `oraculum` binary in temporary folders: the README's commands,
 //! exit codes, error locations, and atomic writes.
 
-use std::path::{Path, PathBuf};
-use std::process::{Command, Output};
+mod common;
 
-fn bin() -> Command {
-    Command::new(env!("CARGO_BIN_EXE_oraculum"))
-}
-
-fn repo() -> PathBuf {
-    PathBuf::from(env!("CARGO_MANIFEST_DIR"))
-}
-
-fn run_in(dir: &Path, args: &[&str]) -> Output {
-    bin()
-        .current_dir(dir)
-        .env(
-            "ORACULUM_CACHE",
-            std::env::temp_dir().join("oraculum-test-cache"),
-        )
-        .args(args)
-        .output()
-        .expect("the binary runs")
-}
-
-fn text(o: &Output) -> (String, String) {
-    (
-        String::from_utf8_lossy(&o.stdout).into_owned(),
-        String::from_utf8_lossy(&o.stderr).into_owned(),
-    )
-}
-
-/// A temporary folder holding a copy of `specs/`, like a fresh clone.
-fn workspace() -> tempfile::TempDir {
-    let dir = tempfile::tempdir().unwrap();
-    std::fs::create_dir(dir.path().join("specs")).unwrap();
-    for e in std::fs::read_dir(repo().join("specs")).unwrap() {
-        let e = e.unwrap();
-        std::fs::copy(e.path(), dir.path().join("specs").join(e.file_name())).unwrap();
-    }
-    dir
-}
+use common::{repo, run_in, text, workspace};
 
 #[test]
 fn readme_first_command_works_on_a_fresh_copy() {

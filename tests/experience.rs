@@ -1,32 +1,13 @@
 //! The user's first five minutes: drawings, JSON from every command,
 //! completions and the manual, and the README walkthrough run as written.
 
-use std::path::{Path, PathBuf};
-use std::process::{Command, Output};
+mod common;
 
-fn repo() -> PathBuf {
-    PathBuf::from(env!("CARGO_MANIFEST_DIR"))
-}
+use common::{repo, run_in};
 
-fn run_in(dir: &Path, args: &[&str]) -> Output {
-    Command::new(env!("CARGO_BIN_EXE_oraculum"))
-        .current_dir(dir)
-        .env(
-            "ORACULUM_CACHE",
-            std::env::temp_dir().join("oraculum-test-cache"),
-        )
-        .args(args)
-        .output()
-        .expect("the binary runs")
-}
-
+/// The demo specs and the small drawing example, in a temporary folder.
 fn workspace() -> tempfile::TempDir {
-    let dir = tempfile::tempdir().unwrap();
-    std::fs::create_dir(dir.path().join("specs")).unwrap();
-    for e in std::fs::read_dir(repo().join("specs")).unwrap() {
-        let e = e.unwrap();
-        std::fs::copy(e.path(), dir.path().join("specs").join(e.file_name())).unwrap();
-    }
+    let dir = common::workspace();
     std::fs::copy(
         repo().join("tests/data/small.qasm"),
         dir.path().join("small.qasm"),

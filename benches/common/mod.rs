@@ -22,3 +22,29 @@ pub fn names(n: usize) -> String {
         .collect::<Vec<_>>()
         .join(", ")
 }
+
+/// A one-output spec over `n` inputs: the XOR of `terms` random products of 2
+/// to 5 distinct inputs, as an expression.
+pub fn xor_of_products(rng: &mut Mix, n: usize, terms: usize) -> String {
+    let t: Vec<String> = (0..terms)
+        .map(|_| {
+            let k = 2 + (rng.next() % 4) as usize;
+            let mut vars: Vec<usize> = Vec::new();
+            while vars.len() < k {
+                let v = (rng.next() % n as u64) as usize;
+                if !vars.contains(&v) {
+                    vars.push(v);
+                }
+            }
+            vars.iter()
+                .map(|v| format!("v{v}"))
+                .collect::<Vec<_>>()
+                .join(" & ")
+        })
+        .collect();
+    format!(
+        "kind = \"function\"\ninputs = [{}]\noutputs = [\"f\"]\n[expr]\nf = \"{}\"\n",
+        names(n),
+        t.join(" ^ ")
+    )
+}

@@ -267,3 +267,41 @@ pub fn arb_circuit(lines: usize, gates: usize) -> impl Strategy<Value = oraculum
         oraculum::Circuit::from_parts(info, gs).unwrap()
     })
 }
+
+/// The repository's root folder.
+pub fn repo() -> std::path::PathBuf {
+    std::path::PathBuf::from(env!("CARGO_MANIFEST_DIR"))
+}
+
+/// Runs the real binary in `dir`, with the exact-synthesis cache in a
+/// temporary folder rather than the user's home.
+pub fn run_in(dir: &std::path::Path, args: &[&str]) -> std::process::Output {
+    std::process::Command::new(env!("CARGO_BIN_EXE_oraculum"))
+        .current_dir(dir)
+        .env(
+            "ORACULUM_CACHE",
+            std::env::temp_dir().join("oraculum-test-cache"),
+        )
+        .args(args)
+        .output()
+        .expect("the binary runs")
+}
+
+/// Standard output and standard error as text.
+pub fn text(o: &std::process::Output) -> (String, String) {
+    (
+        String::from_utf8_lossy(&o.stdout).into_owned(),
+        String::from_utf8_lossy(&o.stderr).into_owned(),
+    )
+}
+
+/// A temporary folder holding a copy of `specs/`, like a fresh clone.
+pub fn workspace() -> tempfile::TempDir {
+    let dir = tempfile::tempdir().unwrap();
+    std::fs::create_dir(dir.path().join("specs")).unwrap();
+    for e in std::fs::read_dir(repo().join("specs")).unwrap() {
+        let e = e.unwrap();
+        std::fs::copy(e.path(), dir.path().join("specs").join(e.file_name())).unwrap();
+    }
+    dir
+}
