@@ -95,26 +95,6 @@ fn main() {
             v
         })
         .collect();
-    // Exact on 4 lines: build the table, then query a sample of the random functions.
-    let t = Instant::now();
-    let table4 = oraculum::Exact4::build();
-    let d = table4.distribution();
-    println!(
-        "(4-line table of {} functions, sizes 0-5: {:?}, built in {:.1} s)",
-        d.iter().sum::<usize>(),
-        d,
-        t.elapsed().as_secs_f64()
-    );
-    let t = Instant::now();
-    let sample = &four[..200];
-    let proven = sample
-        .iter()
-        .filter(|images| table4.query(images).is_some())
-        .count();
-    println!(
-        "(4-line exact on 200 of the random functions: {proven} proven optimal within 10 gates, the others need at least 11; {:.2} s per query)",
-        t.elapsed().as_secs_f64() / 200.0
-    );
     row("4 lines (10,000 random): transform", &four, 4, |p| {
         transform_with(p, false)
     });
@@ -131,4 +111,81 @@ fn main() {
         optimize(&mut c);
         c
     });
+    exact4(&four);
+}
+
+/// Exact synthesis on 4 lines: builds the table (depth from
+/// `ORACULUM_BENCH_DEPTH`, default 7), then finds the optimum of the first
+/// `ORACULUM_BENCH_SAMPLE` (default 1000) of the random functions.
+fn exact4(four: &[Vec<u64>]) {
+    let env = |name: &str, default: usize| {
+        std::env::var(name)
+            .ok()
+            .and_then(|v| v.parse().ok())
+            .unwrap_or(default)
+    };
+    let depth = env("ORACULUM_BENCH_DEPTH", 7) as u8;
+    let n = env("ORACULUM_BENCH_SAMPLE", 1000).min(four.len());
+    let t = Instant::now();
+    let table = oraculum::Exact4::build(depth, &|_| {});
+    println!(
+        "(4-line table of depth {depth} built in {:.1} s: classes per gate count {:?}, functions {:?})",
+        t.elapsed().as_secs_f64(),
+        table.levels().iter().map(|l| l.classes).collect::<Vec<_>>(),
+        table.distribution()
+    );
+    let sample = &four[..n];
+    let mut sizes = [0usize; 20];
+    let mut secs_by_size = [(0.0f64, 0.0f64); 20];
+    let (mut total, mut nct, mut open) = (0usize, 0usize, 0usize);
+    let all = Instant::now();
+    for images in sample {
+        let t = Instant::now();
+        let r = table.solve(images, std::time::Duration::from_secs(120));
+        let secs = t.elapsed().as_secs_f64();
+        if !r.minimal {
+            open += 1;
+            println!(
+                "(not proven within the budget: {images:?}, at least {} gates)",
+                r.lower_bound
+            );
+            continue;
+        }
+        let mut c = Circuit::new(oraculum::permutation_lines(4));
+        for g in r.gates {
+            c.push(g);
+        }
+        assert!((0..16u64).all(|i| c.simulate(i) == images[i as usize]));
+        let k = c.gates().len();
+        sizes[k] += 1;
+        secs_by_size[k].0 += secs;
+        secs_by_size[k].1 = secs_by_size[k].1.max(secs);
+        total += k;
+        nct += lower(&c).gates().len();
+    }
+    let proven = n - open;
+    println!(
+        "| 4 lines (first {n} of the random ones): exact, depth-{depth} table | {proven} | {:.4} | {:.4} | {:.1} ms |",
+        total as f64 / proven as f64,
+        nct as f64 / proven as f64,
+        1e3 * all.elapsed().as_secs_f64() / n as f64
+    );
+    row(
+        &format!("4 lines (first {n}): transform-bidir + optimizer"),
+        sample,
+        4,
+        |p| {
+            let mut c = transform_with(p, true);
+            optimize(&mut c);
+            c
+        },
+    );
+    println!("(minimum sizes of the {n}: {} not proven)", open);
+    for (k, &count) in sizes.iter().enumerate().filter(|(_, &c)| c > 0) {
+        println!(
+            "(  {k} gates: {count} functions, {:.3} s per query on average, {:.3} s at most)",
+            secs_by_size[k].0 / count as f64,
+            secs_by_size[k].1
+        );
+    }
 }

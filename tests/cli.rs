@@ -616,3 +616,69 @@ fn a_circuit_against_another_circuit() {
     let o = run_in(dir.path(), &["verify", "g.qasm", "--against", "t.qasm"]);
     assert_eq!(o.status.code(), Some(2));
 }
+
+/// `table` builds the 4-line table into the cache folder, reports the
+/// published counts (Golubitsky and Maslov 2012; checks.md), loads it the
+/// second time, refuses a depth it cannot build, and `exact` then uses it:
+/// a 12-gate function past a depth-5 table's reach gets a circuit that is not
+/// claimed minimal, with the bound and the way to a deeper table.
+#[test]
+fn the_exact_table_command() {
+    let dir = workspace();
+    let cache = dir.path().join("cache");
+    let run = |args: &[&str]| {
+        std::process::Command::new(env!("CARGO_BIN_EXE_oraculum"))
+            .current_dir(dir.path())
+            .env("ORACULUM_CACHE", &cache)
+            .args(args)
+            .output()
+            .unwrap()
+    };
+    let o = run(&["table", "--depth", "5", "--json"]);
+    assert_eq!(o.status.code(), Some(0), "{:?}", text(&o));
+    let v: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
+    assert_eq!(v["action"], "built");
+    assert_eq!(v["reach"], 9);
+    let functions: Vec<u64> = v["levels"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|l| l["functions"].as_u64().unwrap())
+        .collect();
+    assert_eq!(functions, vec![1, 32, 784, 16204, 294507, 4807552]);
+    assert!(cache.join("exact4-depth5-v2.bin").is_file());
+    let o = run(&["table", "--depth", "5"]);
+    assert_eq!(o.status.code(), Some(0));
+    assert!(text(&o).0.starts_with("loaded the 4-line table of depth 5"));
+    for bad in ["0", "9"] {
+        let o = run(&["table", "--depth", bad]);
+        assert_eq!(o.status.code(), Some(2), "{bad}");
+        assert!(text(&o).1.contains("--depth"));
+    }
+    // lamp-cycle needs 12 gates (proven with the depth-7 and depth-8 tables
+    // while writing this test); depth 5 reaches 9.
+    let o = run(&[
+        "synth",
+        "specs/lamp-cycle.toml",
+        "--method",
+        "exact",
+        "-o",
+        "l.qasm",
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{:?}", text(&o));
+    let (out, err) = text(&o);
+    let report = out + &err;
+    assert!(
+        report.contains("loaded the 4-line table of depth 5"),
+        "{report}"
+    );
+    assert!(
+        report.contains("NOT proven minimal: no circuit of fewer than 10 gates exists"),
+        "{report}"
+    );
+    assert!(report.contains("oraculum table --depth 8"), "{report}");
+    assert!(
+        report.contains("verified on all 16 basis states"),
+        "{report}"
+    );
+}

@@ -16,7 +16,10 @@ pub use esop::{
 };
 pub use esop_exact::{exact_esop, EsopTable, ExactEsop, EXACT_ESOP_MAX_INPUTS};
 pub use exact::{library, Exact3};
-pub use exact4::{cache_path, Exact4, Exact4Result, HALF};
+pub use exact4::{
+    cache_path, deepest_cached, BuildProgress, Exact4, Exact4Result, Level, DEFAULT_DEPTH,
+    MAX_DEPTH,
+};
 pub use reed_muller::{reed_muller, reed_muller_coefficients};
 pub use transform::{
     transform, transform_function, transform_with, xor_embedding, TRANSFORM_MAX_LINES,
@@ -98,7 +101,7 @@ impl Method {
         (
             Method::Exact,
             "exact",
-            "permutations of at most 4 lines (and functions through their xor embedding): a minimum circuit (4 lines: up to 10 gates, else a bound)",
+            "permutations of at most 4 lines (and functions through their xor embedding): a minimum circuit (4 lines: from a cached table, within --exact-seconds, else a proven bound)",
         ),
         (
             Method::Structural,
@@ -298,13 +301,15 @@ pub fn synthesize(
             check_gates(&c, limits)?;
             Ok(c.into())
         }
-        (SpecBody::Permutation(p), Method::Exact) => exact_circuit(p.images(), p.width(), permutation_lines(p.width())),
+        (SpecBody::Permutation(p), Method::Exact) => {
+            exact_circuit(p.images(), p.width(), permutation_lines(p.width()), limits)
+        }
         (SpecBody::Function(f), Method::Exact) => {
             let (n, m) = (f.inputs.len(), f.outputs.len());
             if n + m > 4 {
                 return Err(exact_refused());
             }
-            exact_circuit(&transform::xor_embedding(f), n + m, function_lines(f))
+            exact_circuit(&transform::xor_embedding(f), n + m, function_lines(f), limits)
         }
         (SpecBody::Function(f), Method::Transform | Method::TransformBidir) => {
             let c = transform_function(f, method == Method::TransformBidir)?;
@@ -356,11 +361,67 @@ fn exact_refused() -> SynthError {
     }
 }
 
-/// The 4-line table, loaded from its cache or built (and cached) on first use.
-fn exact4_table() -> (&'static Exact4, bool) {
-    static TABLE: std::sync::OnceLock<(Exact4, bool)> = std::sync::OnceLock::new();
-    let (t, built) = TABLE.get_or_init(|| Exact4::load_or_build(&cache_path()));
-    (t, *built)
+/// What the 4-line exact search reports while it works.
+#[derive(Clone, Copy, Debug)]
+pub enum Exact4Progress {
+    /// Building the table.
+    Build(BuildProgress),
+    /// Searching past the table.
+    Search {
+        /// The gate count being tried.
+        gates: usize,
+        /// The part of that count's search done, from 0 to 1.
+        fraction: f64,
+    },
+}
+
+type ProgressHook = Box<dyn Fn(Exact4Progress) + Send + Sync>;
+static EXACT4_PROGRESS: std::sync::OnceLock<ProgressHook> = std::sync::OnceLock::new();
+
+/// Sets, once per process, where the 4-line table's build and long searches
+/// report progress (the command line draws a bar on a terminal).
+pub fn set_exact4_progress(hook: impl Fn(Exact4Progress) + Send + Sync + 'static) {
+    let _ = EXACT4_PROGRESS.set(Box::new(hook));
+}
+
+fn exact4_report(p: Exact4Progress) {
+    if let Some(hook) = EXACT4_PROGRESS.get() {
+        hook(p);
+    }
+}
+
+/// The 4-line table: the deepest intact one in the cache folder, else one of
+/// [`DEFAULT_DEPTH`] built now and cached. The text says which, once.
+pub fn exact4_table() -> (&'static Exact4, Option<String>) {
+    static TABLE: std::sync::OnceLock<(Exact4, String)> = std::sync::OnceLock::new();
+    static TOLD: std::sync::atomic::AtomicBool = std::sync::atomic::AtomicBool::new(false);
+    let (t, how) = TABLE.get_or_init(|| {
+        let t0 = std::time::Instant::now();
+        for d in (1..=MAX_DEPTH).rev() {
+            let path = cache_path(d);
+            if let Some(t) = path.is_file().then(|| Exact4::load(&path)).flatten() {
+                let how = format!(
+                    "exact: loaded the 4-line table of depth {d} from {} in {:.1} s",
+                    path.display(),
+                    t0.elapsed().as_secs_f64()
+                );
+                return (t, how);
+            }
+        }
+        let t = Exact4::build(DEFAULT_DEPTH, &|p| exact4_report(Exact4Progress::Build(p)));
+        let path = cache_path(DEFAULT_DEPTH);
+        let saved = match t.save(&path) {
+            Ok(()) => format!("cached it at {}", path.display()),
+            Err(e) => format!("could not cache it at {}: {e}", path.display()),
+        };
+        let how = format!(
+            "exact: built the 4-line table of depth {DEFAULT_DEPTH} in {:.1} s and {saved}",
+            t0.elapsed().as_secs_f64()
+        );
+        (t, how)
+    });
+    let first = !TOLD.swap(true, std::sync::atomic::Ordering::Relaxed);
+    (t, first.then(|| how.clone()))
 }
 
 /// The optimal circuit of a function of at most 4 lines, placed on `lines`.
@@ -368,22 +429,18 @@ fn exact_circuit(
     images: &[u64],
     width: usize,
     lines: Vec<LineInfo>,
+    limits: &SynthLimits,
 ) -> Result<Synthesis, SynthError> {
     if width > 4 {
         return Err(exact_refused());
     }
     if width == 4 {
-        let t0 = std::time::Instant::now();
-        let (table, built) = exact4_table();
-        let mut notes = Vec::new();
-        if built {
-            notes.push(format!(
-                "exact: built the 4-line table in {:.1} s and cached it at {}",
-                t0.elapsed().as_secs_f64(),
-                cache_path().display()
-            ));
-        }
-        let r = table.solve(images);
+        let (table, how) = exact4_table();
+        let mut notes: Vec<String> = how.into_iter().collect();
+        let budget = std::time::Duration::from_secs_f64(limits.exact_seconds.max(0.0));
+        let r = table.solve_with(images, budget, &|gates, fraction| {
+            exact4_report(Exact4Progress::Search { gates, fraction })
+        });
         let mut c = Circuit::new(lines);
         if r.minimal {
             for g in r.gates {
@@ -400,9 +457,18 @@ fn exact_circuit(
             for g in h.gates() {
                 c.push(g.clone());
             }
+            let why = if r.lower_bound > table.reach() {
+                format!(
+                    "the table of depth {} proves minima of at most {} gates (a deeper one: `oraculum table --depth {MAX_DEPTH}`)",
+                    table.depth(),
+                    table.reach()
+                )
+            } else {
+                "the search stopped at --exact-seconds".to_string()
+            };
             notes.push(format!(
-                "exact: NOT proven minimal: no circuit of at most {} gates exists, so this {}-gate circuit from transform-bidir is at most {} gates above the minimum",
-                r.lower_bound - 1,
+                "exact: NOT proven minimal: no circuit of fewer than {} gates exists, and {why}; this {}-gate circuit from transform-bidir is at most {} gates above the minimum",
+                r.lower_bound,
                 c.gates().len(),
                 c.gates().len().saturating_sub(r.lower_bound)
             ));
