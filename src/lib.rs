@@ -42,7 +42,8 @@ pub use logic::{
 pub use lower::{lower, ANCILLA_REGISTER};
 pub use mutate::{mutants, Fault};
 pub use opt::{
-    cancel_pairs, lowered_cost, merge_pairs, optimize, resynthesize_windows, CANCEL_WINDOW,
+    cancel_pairs, lowered_cost, merge_pairs, optimize, resynthesize_windows, resynthesize_windows4,
+    CANCEL_WINDOW, WINDOW4_GATES,
 };
 pub use pipeline::{
     build, build_one, build_with_progress, compare, tradeoff, BuildError, BuildOptions, Outcome,
@@ -53,14 +54,13 @@ pub use spec::{
     OutputDef, Source, Spec, SpecBody, MAX_ARITH_WIDTH,
 };
 pub use synth::{
-    arith_lines, arithmetic, bennett, bennett_counts, cache_path, candidates, deepest_cached,
-    esop_circuit, esop_of, exact4_table, exact_esop, exorlink_minimize, function_lines,
-    hierarchical, library, minimize_tables, network_of, permutation_lines, reed_muller,
-    reed_muller_coefficients, set_exact4_progress, synthesize, transform, transform_function,
-    transform_with, xor_embedding, BuildProgress, EsopTable, Exact3, Exact4, Exact4Progress,
-    Exact4Result, ExactEsop, Level, Method, Registers, SynthError, SynthLimits, Synthesis,
-    DEFAULT_DEPTH, EXACT_ESOP_MAX_INPUTS, EXORLINK_MAX_TERMS, EXORLINK_WORK, MAX_DEPTH,
-    PIECE_INPUTS, TRANSFORM_MAX_LINES,
+    arith_lines, arithmetic, bennett, bennett_counts, cache_path, candidates, esop_circuit,
+    esop_of, exact4_table, exact_esop, exorlink_minimize, function_lines, hierarchical, library,
+    minimize_tables, network_of, permutation_lines, reed_muller, reed_muller_coefficients,
+    set_exact4_progress, synthesize, transform, transform_function, transform_with, xor_embedding,
+    BuildProgress, EsopTable, Exact3, Exact4, Exact4Progress, Exact4Result, ExactEsop, Level,
+    Method, Registers, SynthError, SynthLimits, Synthesis, DEFAULT_DEPTH, EXACT_ESOP_MAX_INPUTS,
+    EXORLINK_MAX_TERMS, EXORLINK_WORK, MAX_DEPTH, PIECE_INPUTS, TRANSFORM_MAX_LINES, WINDOW_DEPTH,
 };
 pub use verify::{
     circuits_equivalent, fingerprint, free_lines, merge_shards, sat_equivalence, verify,

@@ -619,9 +619,9 @@ fn a_circuit_against_another_circuit() {
 
 /// `table` builds the 4-line table into the cache folder, reports the
 /// published counts (Golubitsky and Maslov 2012; checks.md), loads it the
-/// second time, refuses a depth it cannot build, and `exact` then uses it:
-/// a 12-gate function past a depth-5 table's reach gets a circuit that is not
-/// claimed minimal, with the bound and the way to a deeper table.
+/// second time, and refuses a depth it cannot build; `exact` uses the depth-7
+/// table, and a function past its reach gets a circuit that is not claimed
+/// minimal, with the proven bound and the way to a deeper table.
 #[test]
 fn the_exact_table_command() {
     let dir = workspace();
@@ -655,25 +655,26 @@ fn the_exact_table_command() {
         assert_eq!(o.status.code(), Some(2), "{bad}");
         assert!(text(&o).1.contains("--depth"));
     }
-    // lamp-cycle needs 12 gates (proven with the depth-7 and depth-8 tables
-    // while writing this test); depth 5 reaches 9.
-    let o = run(&[
-        "synth",
-        "specs/lamp-cycle.toml",
-        "--method",
-        "exact",
-        "-o",
-        "l.qasm",
-    ]);
+    let o = run(&["table", "--depth", "7"]);
+    assert_eq!(o.status.code(), Some(0));
+    // One of the benchmark's random functions: the depth-7 search proves it
+    // needs at least 14 gates, one more than that table reaches (the depth-8
+    // table finds 14).
+    std::fs::write(
+        dir.path().join("far.toml"),
+        "kind = \"permutation\"\nwidth = 4\nimages = [10, 0, 13, 7, 15, 1, 4, 5, 3, 6, 2, 14, 8, 12, 11, 9]\n",
+    )
+    .unwrap();
+    let o = run(&["synth", "far.toml", "--method", "exact", "-o", "far.qasm"]);
     assert_eq!(o.status.code(), Some(0), "{:?}", text(&o));
     let (out, err) = text(&o);
     let report = out + &err;
     assert!(
-        report.contains("loaded the 4-line table of depth 5"),
+        report.contains("loaded the 4-line table of depth 7"),
         "{report}"
     );
     assert!(
-        report.contains("NOT proven minimal: no circuit of fewer than 10 gates exists"),
+        report.contains("NOT proven minimal: no circuit of fewer than 14 gates exists"),
         "{report}"
     );
     assert!(report.contains("oraculum table --depth 8"), "{report}");

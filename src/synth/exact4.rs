@@ -30,6 +30,9 @@ use std::time::{Duration, Instant};
 /// Table depth built on first use: every class of at most 7 gates, so a
 /// query of up to 13 gates finds its optimum.
 pub const DEFAULT_DEPTH: u8 = 7;
+/// Depth of the table the optimizer uses to rewrite runs of gates on four
+/// lines (every function of at most 6 gates; 1.6 million classes, 13 MB).
+pub const WINDOW_DEPTH: u8 = 6;
 /// Deepest table [`Exact4::build`] accepts (about 4 GB in memory).
 pub const MAX_DEPTH: u8 = 8;
 
@@ -653,12 +656,6 @@ fn cache_dir() -> PathBuf {
         .unwrap_or_else(|| std::env::temp_dir().join("oraculum"))
 }
 
-/// The deepest table cached in the cache folder (whether it is intact is
-/// checked when it loads).
-pub fn deepest_cached() -> Option<u8> {
-    (1..=MAX_DEPTH).rev().find(|&d| cache_path(d).is_file())
-}
-
 /// A running checksum over 64-bit words.
 struct Checksum(u64);
 
@@ -1053,6 +1050,22 @@ impl Exact4 {
         }
         out.reverse();
         out
+    }
+
+    /// A minimum circuit of `images` when its minimum is at most the table's
+    /// depth (a lookup, no search), else `None`.
+    pub fn lookup(&self, images: &[u64]) -> Option<Vec<Gate>> {
+        let f = pack(images);
+        self.size(f).map(|_| self.walk(f))
+    }
+
+    /// The table the optimizer's 4-line windows use (depth [`WINDOW_DEPTH`]),
+    /// loaded from the cache folder or built (0.3 s) and cached on first use.
+    pub fn for_windows() -> &'static Exact4 {
+        static TABLE: std::sync::OnceLock<Exact4> = std::sync::OnceLock::new();
+        TABLE.get_or_init(|| {
+            Exact4::load_or_build(&cache_path(WINDOW_DEPTH), WINDOW_DEPTH, &|_| {}).0
+        })
     }
 
     /// The minimum circuit of `images` (the 16 images of a 4-bit reversible

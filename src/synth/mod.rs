@@ -17,8 +17,7 @@ pub use esop::{
 pub use esop_exact::{exact_esop, EsopTable, ExactEsop, EXACT_ESOP_MAX_INPUTS};
 pub use exact::{library, Exact3};
 pub use exact4::{
-    cache_path, deepest_cached, BuildProgress, Exact4, Exact4Result, Level, DEFAULT_DEPTH,
-    MAX_DEPTH,
+    cache_path, BuildProgress, Exact4, Exact4Result, Level, DEFAULT_DEPTH, MAX_DEPTH, WINDOW_DEPTH,
 };
 pub use reed_muller::{reed_muller, reed_muller_coefficients};
 pub use transform::{
@@ -258,6 +257,10 @@ pub fn candidates(spec: &Spec, thorough: bool) -> Vec<Method> {
             if instant || (thorough && n <= EXACT_ESOP_MAX_INPUTS) {
                 v.push(Method::EsopExact);
             }
+            // The xor embedding of at most 4 lines has an exact optimum.
+            if n + f.outputs.len() <= 4 {
+                v.push(Method::Exact);
+            }
             v
         }
         SpecBody::Permutation(p) if p.width() <= 4 => {
@@ -390,14 +393,15 @@ fn exact4_report(p: Exact4Progress) {
     }
 }
 
-/// The 4-line table: the deepest intact one in the cache folder, else one of
-/// [`DEFAULT_DEPTH`] built now and cached. The text says which, once.
+/// The 4-line table: the deepest intact one of depth [`DEFAULT_DEPTH`] or
+/// more in the cache folder, else one of [`DEFAULT_DEPTH`] built now and
+/// cached. The text says which, once.
 pub fn exact4_table() -> (&'static Exact4, Option<String>) {
     static TABLE: std::sync::OnceLock<(Exact4, String)> = std::sync::OnceLock::new();
     static TOLD: std::sync::atomic::AtomicBool = std::sync::atomic::AtomicBool::new(false);
     let (t, how) = TABLE.get_or_init(|| {
         let t0 = std::time::Instant::now();
-        for d in (1..=MAX_DEPTH).rev() {
+        for d in (DEFAULT_DEPTH..=MAX_DEPTH).rev() {
             let path = cache_path(d);
             if let Some(t) = path.is_file().then(|| Exact4::load(&path)).flatten() {
                 let how = format!(
