@@ -33,7 +33,8 @@ pub const DEFAULT_DEPTH: u8 = 7;
 /// Depth of the table the optimizer uses to rewrite runs of gates on four
 /// lines (every function of at most 6 gates; 1.6 million classes, 13 MB).
 pub const WINDOW_DEPTH: u8 = 6;
-/// Deepest table [`Exact4::build`] accepts (about 4 GB in memory).
+/// Deepest table [`Exact4::build`] accepts (6.7 GB at the peak of its build,
+/// 2.4 GB once built).
 pub const MAX_DEPTH: u8 = 8;
 
 const MAGIC: &[u8; 24] = b"oraculum exact4 table v2";
@@ -49,6 +50,13 @@ pub fn pack(images: &[u64]) -> Perm {
         .iter()
         .enumerate()
         .fold(0, |a, (i, &v)| a | (v & 15) << (4 * i))
+}
+
+/// Whether `images` is a reversible function of 4 bits.
+fn is_permutation(images: &[u64]) -> bool {
+    images.len() == 16
+        && images.iter().fold(0u32, |seen, &v| seen | 1 << (v & 15)) == 0xffff
+        && images.iter().all(|&v| v < 16)
 }
 
 fn image(p: Perm, i: u64) -> u64 {
@@ -1055,6 +1063,9 @@ impl Exact4 {
     /// A minimum circuit of `images` when its minimum is at most the table's
     /// depth (a lookup, no search), else `None`.
     pub fn lookup(&self, images: &[u64]) -> Option<Vec<Gate>> {
+        if !is_permutation(images) {
+            return None;
+        }
         let f = pack(images);
         self.size(f).map(|_| self.walk(f))
     }
@@ -1069,7 +1080,8 @@ impl Exact4 {
     }
 
     /// The minimum circuit of `images` (the 16 images of a 4-bit reversible
-    /// function), searching for at most `budget`. When the budget runs out, or
+    /// function; anything else gets an empty, non-minimal result), searching
+    /// for at most `budget`. When the budget runs out, or
     /// the function needs more than [`Exact4::reach`] gates, the result is
     /// not minimal and carries the lower bound proven so far.
     pub fn solve(&self, images: &[u64], budget: Duration) -> Exact4Result {
@@ -1084,6 +1096,14 @@ impl Exact4 {
         progress: &(dyn Fn(usize, f64) + Sync),
     ) -> Exact4Result {
         let deadline = Instant::now() + budget;
+        if !is_permutation(images) {
+            // Not a reversible function of 4 bits: no circuit, nothing proven.
+            return Exact4Result {
+                gates: Vec::new(),
+                minimal: false,
+                lower_bound: 0,
+            };
+        }
         let f = pack(images);
         if self.size(f).is_some() {
             let gates = self.walk(f);
@@ -1302,6 +1322,23 @@ mod tests {
                 assert_eq!(SEND[k][v as usize] as u64, image(relabel(xor_v, map), 0));
             }
         }
+    }
+
+    #[test]
+    fn anything_but_a_4_bit_permutation_gets_no_circuit() {
+        let t = Exact4::build(2, &|_| {});
+        let mut twice: Vec<u64> = (0..16).collect();
+        twice[3] = 4;
+        let mut wide: Vec<u64> = (0..16).collect();
+        wide[15] = 31;
+        for bad in [twice, wide, (0..8).collect(), Vec::new()] {
+            let r = t.solve(&bad, Duration::from_secs(1));
+            assert!(!r.minimal && r.gates.is_empty() && r.lower_bound == 0);
+            assert!(t.lookup(&bad).is_none());
+        }
+        // A 2-gate function is in the depth-2 table.
+        let two: Vec<u64> = (0..16).map(|x| x ^ 1 ^ ((x & 1) << 1)).collect();
+        assert_eq!(t.lookup(&two).map(|c| c.len()), Some(2));
     }
 
     #[test]
