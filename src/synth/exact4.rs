@@ -557,9 +557,13 @@ impl Compact {
             .map(|&e| (e >> 60) as u8)
     }
 
-    /// Touches the bucket starts of `keys` so that their cache lines load together.
-    fn touch(&self, keys: &[Perm]) -> u32 {
-        keys.iter().fold(0, |a, &k| a ^ self.starts[self.bucket(k)])
+    /// Touches the bucket starts of `keys`, then their first entries, so
+    /// that the cache misses of many lookups overlap.
+    fn touch(&self, keys: &[Perm; 48]) -> u64 {
+        let starts = keys.map(|k| self.starts[self.bucket(k)] as usize);
+        starts
+            .iter()
+            .fold(0, |a, &i| a ^ self.entries.get(i).copied().unwrap_or(0))
     }
 
     /// Canonical forms of every class of `0, 1, ..., counts.len() - 1`
