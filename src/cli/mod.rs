@@ -426,6 +426,13 @@ fn exact4_bar() -> impl Fn(Exact4Progress) + Send + Sync {
                 (fraction * 1000.0) as u64,
                 1000,
             ),
+            Exact4Progress::Done => {
+                let mut slot = bar.lock().unwrap_or_else(|e| e.into_inner());
+                if let Some((_, old)) = slot.take() {
+                    old.finish_and_clear();
+                }
+                return;
+            }
         };
         let mut slot = bar.lock().unwrap_or_else(|e| e.into_inner());
         if slot.as_ref().is_none_or(|(l, _)| *l != label) {

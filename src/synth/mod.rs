@@ -376,6 +376,8 @@ pub enum Exact4Progress {
         /// The part of that count's search done, from 0 to 1.
         fraction: f64,
     },
+    /// The search is over (found, bounded or out of time).
+    Done,
 }
 
 type ProgressHook = Box<dyn Fn(Exact4Progress) + Send + Sync>;
@@ -445,6 +447,7 @@ fn exact_circuit(
         let r = table.solve_with(images, budget, &|gates, fraction| {
             exact4_report(Exact4Progress::Search { gates, fraction })
         });
+        exact4_report(Exact4Progress::Done);
         let mut c = Circuit::new(lines);
         if r.minimal {
             for g in r.gates {
