@@ -437,32 +437,7 @@ impl Slots {
     /// `first + 1`, ... gates, with `counts` saying how many there are of
     /// each, in one pass.
     fn levels(&self, first: usize, counts: &[u64]) -> Vec<Vec<Perm>> {
-        let wanted = counts.len();
-        let mut parts: Vec<Vec<Vec<Perm>>> = self
-            .slots
-            .par_chunks(1 << 20)
-            .map(|chunk| {
-                let mut out = vec![Vec::new(); wanted];
-                for s in chunk {
-                    let e = s.load(Ordering::Relaxed);
-                    let d = ((e >> 60) as usize).wrapping_sub(first);
-                    if e != 0 && d < wanted {
-                        out[d].push(restore(e));
-                    }
-                }
-                out
-            })
-            .collect();
-        let mut out: Vec<Vec<Perm>> = counts
-            .iter()
-            .map(|&n| Vec::with_capacity(n as usize))
-            .collect();
-        for part in &mut parts {
-            for (o, p) in out.iter_mut().zip(part.iter_mut()) {
-                o.append(p);
-            }
-        }
-        out
+        split_levels(&self.slots, |s| s.load(Ordering::Relaxed), first, counts)
     }
 }
 
@@ -569,32 +544,44 @@ impl Compact {
     /// Canonical forms of every class of `0, 1, ..., counts.len() - 1`
     /// gates, `counts` saying how many there are of each, in one pass.
     fn levels(&self, counts: &[u64]) -> Vec<Vec<Perm>> {
-        let wanted = counts.len();
-        let parts: Vec<Vec<Vec<Perm>>> = self
-            .entries
-            .par_chunks(1 << 20)
-            .map(|chunk| {
-                let mut out = vec![Vec::new(); wanted];
-                for &e in chunk {
-                    let d = (e >> 60) as usize;
-                    if d < wanted {
-                        out[d].push(restore(e));
-                    }
-                }
-                out
-            })
-            .collect();
-        let mut out: Vec<Vec<Perm>> = counts
-            .iter()
-            .map(|&n| Vec::with_capacity(n as usize))
-            .collect();
-        for mut part in parts {
-            for (o, p) in out.iter_mut().zip(part.iter_mut()) {
-                o.append(p);
-            }
-        }
-        out
+        split_levels(&self.entries, |&e| e, 0, counts)
     }
+}
+
+/// The canonical forms of the entries (read by `load`, 0 for an empty slot)
+/// of `first`, `first + 1`, ... gates, `counts` saying how many there are of
+/// each, in one parallel pass.
+fn split_levels<T: Sync>(
+    items: &[T],
+    load: impl Fn(&T) -> u64 + Sync,
+    first: usize,
+    counts: &[u64],
+) -> Vec<Vec<Perm>> {
+    let wanted = counts.len();
+    let parts: Vec<Vec<Vec<Perm>>> = items
+        .par_chunks(1 << 20)
+        .map(|chunk| {
+            let mut out = vec![Vec::new(); wanted];
+            for item in chunk {
+                let e = load(item);
+                let d = ((e >> 60) as usize).wrapping_sub(first);
+                if e != 0 && d < wanted {
+                    out[d].push(restore(e));
+                }
+            }
+            out
+        })
+        .collect();
+    let mut out: Vec<Vec<Perm>> = counts
+        .iter()
+        .map(|&n| Vec::with_capacity(n as usize))
+        .collect();
+    for mut part in parts {
+        for (o, p) in out.iter_mut().zip(part.iter_mut()) {
+            o.append(p);
+        }
+    }
+    out
 }
 
 /// The full packed form of a stored entry: the image of 15 is the one value
