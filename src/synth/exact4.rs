@@ -13,9 +13,12 @@
 //! `g` makes `g . f` one gate cheaper. A function outside the table is
 //! `a . b` with `a` of exactly `depth` gates and `b` of `k` gates for the
 //! smallest such `k`; trying every `b` of `k` gates (every member of every
-//! class of `k` gates, for `k = 1, 2, ...`) finds the optimum and proves every
-//! smaller count impossible on the way. A time budget that runs out returns
-//! the lower bound proven so far, never a silent non-optimal answer.
+//! class of `k` gates, for `k = 1, 2, ..., depth - 1`) finds the optimum and
+//! proves every smaller count impossible on the way. Past that, every
+//! neighbour `g . f` and `f . g` needs at least `2 depth - 1` gates, and one
+//! found with exactly that many gives `f` its optimum of `2 depth`. A time
+//! budget that runs out returns the lower bound proven so far, never a
+//! silent non-optimal answer.
 //!
 //! The table is cached on disk (see [`cache_path`]) with a checksum; a
 //! missing, corrupt or stale file is rebuilt.
@@ -28,7 +31,7 @@ use std::sync::atomic::{AtomicBool, AtomicU64, AtomicUsize, Ordering};
 use std::time::{Duration, Instant};
 
 /// Table depth built on first use: every class of at most 7 gates, so a
-/// query of up to 13 gates finds its optimum.
+/// query of up to 14 gates finds its optimum.
 pub const DEFAULT_DEPTH: u8 = 7;
 /// Depth of the table the optimizer uses to rewrite runs of gates on four
 /// lines (every function of at most 6 gates; 1.6 million classes, 13 MB).
@@ -100,7 +103,6 @@ impl LibGate {
     }
 
     /// `p . g`: the gate applied before `p`.
-    #[cfg(test)]
     fn before(&self, p: Perm) -> Perm {
         delta_swap(p, self.position_mask, 4 << self.target)
     }
@@ -771,6 +773,16 @@ impl Neighbours {
     }
 }
 
+/// What one pass of the search found.
+enum Pass {
+    /// Target index, `a` as found, and the class's canonical form.
+    Hit(usize, Perm, Perm),
+    /// No target is `a . b` with `b` from the classes passed over.
+    Miss,
+    /// The budget ran out before the pass ended.
+    OutOfTime,
+}
+
 /// Stores every class one gate away from the classes of `d` gates and not
 /// stored yet, as classes of `d + 1` gates. Returns the classes and functions
 /// added, or `None` when the table passed 15/16 full.
@@ -1022,9 +1034,11 @@ impl Exact4 {
     }
 
     /// The largest gate count a query can prove: a function is `a . b` with
-    /// `a` in the table and `b` from a class of fewer gates than the depth.
+    /// `a` in the table and `b` from a class of fewer gates than the depth,
+    /// or one gate away from such a function when every smaller count has
+    /// been ruled out.
     pub fn reach(&self) -> usize {
-        2 * self.depth as usize - 1
+        2 * self.depth as usize
     }
 
     /// Gate count of a function of at most the table's depth.
@@ -1106,27 +1120,90 @@ impl Exact4 {
             };
         }
         let depth = self.depth as usize;
-        let conjugates = relabellings(f);
         for k in 1..depth {
-            let reps = &self.reps[k];
-            let hit: std::sync::Mutex<Option<(Perm, Perm)>> = std::sync::Mutex::new(None);
-            let stop = AtomicBool::new(false);
-            let done = AtomicUsize::new(0);
-            reps.par_chunks(2048).for_each(|chunk| {
-                if stop.load(Ordering::Relaxed) {
-                    return;
+            match self.pass(&[f], k, deadline, depth + k, progress) {
+                Pass::Hit(_, a_form, r) => return self.assemble(f, a_form, r),
+                Pass::OutOfTime => return Self::bound(depth + k),
+                Pass::Miss => {}
+            }
+        }
+        // Now f needs at least 2D gates, so each neighbour g . f or f . g
+        // needs at least 2D - 1; one that needs exactly 2D - 1 (found by the
+        // pass over classes of D - 1 gates) gives f a circuit of 2D, which is
+        // then minimal. If none does, f needs at least 2D + 1.
+        let neighbours: Vec<(LibGate, bool, Perm)> = self
+            .gates
+            .iter()
+            .flat_map(|g| [(*g, true, g.after(f)), (*g, false, g.before(f))])
+            .collect();
+        let targets: Vec<Perm> = neighbours.iter().map(|n| n.2).collect();
+        match self.pass(&targets, depth - 1, deadline, 2 * depth, progress) {
+            Pass::Hit(i, a_form, r) => {
+                let (g, after, near) = neighbours[i];
+                let inner = self.assemble(near, a_form, r).gates;
+                // near = g . f gives f = g . near: near's circuit, then g;
+                // near = f . g gives f = near . g: g, then near's circuit.
+                let gates: Vec<Gate> = if after {
+                    inner.into_iter().chain([g.gate()]).collect()
+                } else {
+                    [g.gate()].into_iter().chain(inner).collect()
+                };
+                let n = gates.len();
+                Exact4Result {
+                    gates,
+                    minimal: true,
+                    lower_bound: n,
                 }
-                if Instant::now() > deadline {
-                    stop.store(true, Ordering::Relaxed);
-                    return;
-                }
-                let mut forms = [0u64; 48];
-                for &r in chunk {
-                    // f = a . b with b = s r^-1 s^-1 or s r s^-1 for a relabelling
-                    // s; conjugating by s^-1, a is in the class of F . r or F . r^-1
-                    // with F = s^-1 f s.
-                    let ri = inverse(r);
-                    for (j, &c) in conjugates.iter().enumerate() {
+            }
+            Pass::OutOfTime => Self::bound(2 * depth),
+            Pass::Miss => Self::bound(2 * depth + 1),
+        }
+    }
+
+    fn bound(lower_bound: usize) -> Exact4Result {
+        Exact4Result {
+            gates: Vec::new(),
+            minimal: false,
+            lower_bound,
+        }
+    }
+
+    /// One pass over the classes of `k` gates: is some target `t` equal to
+    /// `a . b` with `a` of exactly the table's depth and `b` a member of such
+    /// a class? Returns the first hit as (target index, `a` in the form it
+    /// was found, the class's canonical form).
+    fn pass(
+        &self,
+        targets: &[Perm],
+        k: usize,
+        deadline: Instant,
+        gates: usize,
+        progress: &(dyn Fn(usize, f64) + Sync),
+    ) -> Pass {
+        let reps = &self.reps[k];
+        let conjugates: Vec<[Perm; 24]> = targets.iter().map(|&t| relabellings(t)).collect();
+        let hit: std::sync::Mutex<Option<(usize, Perm, Perm)>> = std::sync::Mutex::new(None);
+        let stop = AtomicBool::new(false);
+        let late = AtomicBool::new(false);
+        let done = AtomicUsize::new(0);
+        let chunk_len = (2048 / targets.len()).max(16);
+        reps.par_chunks(chunk_len).for_each(|chunk| {
+            if stop.load(Ordering::Relaxed) {
+                return;
+            }
+            if Instant::now() > deadline {
+                late.store(true, Ordering::Relaxed);
+                stop.store(true, Ordering::Relaxed);
+                return;
+            }
+            let mut forms = [0u64; 48];
+            for &r in chunk {
+                // t = a . b with b = s r^-1 s^-1 or s r s^-1 for a relabelling
+                // s; conjugating by s^-1, a is in the class of T . r or T . r^-1
+                // with T = s^-1 t s.
+                let ri = inverse(r);
+                for (i, conj) in conjugates.iter().enumerate() {
+                    for (j, &c) in conj.iter().enumerate() {
                         forms[2 * j] = compose(c, r);
                         forms[2 * j + 1] = compose(c, ri);
                     }
@@ -1137,31 +1214,20 @@ impl Exact4 {
                             stop.store(true, Ordering::Relaxed);
                             let mut h = hit.lock().unwrap_or_else(|e| e.into_inner());
                             if h.is_none() {
-                                *h = Some((*form, r));
+                                *h = Some((i, *form, r));
                             }
                             return;
                         }
                     }
                 }
-                let n = done.fetch_add(chunk.len(), Ordering::Relaxed) + chunk.len();
-                progress(depth + k, n as f64 / reps.len() as f64);
-            });
-            let found = hit.into_inner().unwrap_or_else(|e| e.into_inner());
-            if let Some((a_form, r)) = found {
-                return self.assemble(f, a_form, r);
             }
-            if Instant::now() > deadline {
-                return Exact4Result {
-                    gates: Vec::new(),
-                    minimal: false,
-                    lower_bound: depth + k,
-                };
-            }
-        }
-        Exact4Result {
-            gates: Vec::new(),
-            minimal: false,
-            lower_bound: 2 * depth,
+            let n = done.fetch_add(chunk.len(), Ordering::Relaxed) + chunk.len();
+            progress(gates, n as f64 / reps.len() as f64);
+        });
+        match hit.into_inner().unwrap_or_else(|e| e.into_inner()) {
+            Some((i, a_form, r)) => Pass::Hit(i, a_form, r),
+            None if late.into_inner() => Pass::OutOfTime,
+            None => Pass::Miss,
         }
     }
 
