@@ -51,6 +51,16 @@ fn every_3_bit_function_gets_its_minimum_and_verifies() {
     assert!((total as f64 / 40320.0 - 5.8655).abs() < 5e-5);
 }
 
+/// A fixed-seed linear congruential generator (Knuth's MMIX constants).
+fn lcg(mut seed: u64) -> impl FnMut() -> u64 {
+    move || {
+        seed = seed
+            .wrapping_mul(6364136223846793005)
+            .wrapping_add(1442695040888963407);
+        seed >> 33
+    }
+}
+
 fn random_circuit_images(k: usize, next: &mut impl FnMut() -> u64) -> Vec<u64> {
     let mut images: Vec<u64> = (0..16).collect();
     for _ in 0..k {
@@ -120,14 +130,8 @@ fn four_lines_table_queries_and_cache() {
     );
 
     // Random circuits of k gates: the circuit found is no longer, computes
-    // the same, and is proven minimal (depth 6 reaches 11 gates).
-    let mut seed = 99u64;
-    let mut next = || {
-        seed = seed
-            .wrapping_mul(6364136223846793005)
-            .wrapping_add(1442695040888963407);
-        seed >> 33
-    };
+    // the same, and is proven minimal (depth 6 reaches 12 gates).
+    let mut next = lcg(99);
     assert_eq!(t.reach(), 12);
     let budget = std::time::Duration::from_secs(60);
     for k in [0usize, 3, 6, 7, 9, 11] {
@@ -201,13 +205,7 @@ fn four_lines_seven_gates() {
     // function; the depth-7 table finds those sizes with its passes, and
     // both agree on random 12-gate circuits.
     let six = oraculum::Exact4::build(6, &|_| {});
-    let mut seed = 5u64;
-    let mut next = || {
-        seed = seed
-            .wrapping_mul(6364136223846793005)
-            .wrapping_add(1442695040888963407);
-        seed >> 33
-    };
+    let mut next = lcg(5);
     let budget = std::time::Duration::from_secs(120);
     for _ in 0..4 {
         let images = random_circuit_images(12, &mut next);
