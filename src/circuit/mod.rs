@@ -142,6 +142,20 @@ impl Gate {
         g
     }
 
+    /// The same gate with every line renamed by `map` (controls keep their
+    /// polarity); `None` when `map` sends two of its lines to one.
+    pub fn renamed(&self, map: impl Fn(Line) -> Line) -> Option<Gate> {
+        let controls = self
+            .controls
+            .iter()
+            .map(|c| Control {
+                line: map(c.line),
+                positive: c.positive,
+            })
+            .collect();
+        Gate::new(controls, map(self.target))
+    }
+
     /// Applies the gate to a basis state held as a bit mask (line `i` is bit `i`).
     pub fn apply(&self, state: u64) -> u64 {
         let fires = self

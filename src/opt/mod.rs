@@ -171,37 +171,20 @@ pub fn resynthesize_windows(circuit: &mut Circuit) -> bool {
         }
         let window = &gates[i..j];
         let k = set.len();
-        let local = |l: Line| set.iter().position(|&x| x == l).expect("in the window") as u32;
+        let local = |l: Line| Line(set.iter().position(|&x| x == l).expect("in the window") as u32);
+        let local_gates: Vec<Gate> = window
+            .iter()
+            .map(|g| g.renamed(local).expect("distinct lines"))
+            .collect();
         let images: Vec<u64> = (0..1u64 << k)
-            .map(|s| {
-                window.iter().fold(s, |st, g| {
-                    let controls = g
-                        .controls()
-                        .iter()
-                        .map(|c| crate::circuit::Control {
-                            line: Line(local(c.line)),
-                            positive: c.positive,
-                        })
-                        .collect();
-                    Gate::new(controls, Line(local(g.target())))
-                        .expect("distinct lines")
-                        .apply(st)
-                })
-            })
+            .map(|s| local_gates.iter().fold(s, |st, g| g.apply(st)))
             .collect();
         let best = crate::synth::Exact3::for_width(k).circuit(&images);
         if total_cost(&best) < total_cost(window) {
-            for g in best {
-                let controls = g
-                    .controls()
-                    .iter()
-                    .map(|c| crate::circuit::Control {
-                        line: set[c.line.index()],
-                        positive: c.positive,
-                    })
-                    .collect();
-                out.push(Gate::new(controls, set[g.target().index()]).expect("distinct lines"));
-            }
+            out.extend(
+                best.iter()
+                    .map(|g| g.renamed(|l| set[l.index()]).expect("distinct lines")),
+            );
             changed = true;
         } else {
             out.extend(window.iter().cloned());
@@ -258,22 +241,14 @@ pub fn resynthesize_windows4(circuit: &mut Circuit) -> bool {
             continue;
         }
         set.sort();
-        let local = |l: Line| set.iter().position(|&x| x == l).expect("in the run") as u32;
+        let local = |l: Line| Line(set.iter().position(|&x| x == l).expect("in the run") as u32);
         let mut images: Vec<u64> = (0..16).collect();
         let mut best: Option<((i64, i64), usize, Vec<Gate>)> = None;
         let mut most_controls = 0;
         for j in i..end {
             let g = &gates[j];
             most_controls = most_controls.max(g.controls().len());
-            let controls = g
-                .controls()
-                .iter()
-                .map(|c| crate::circuit::Control {
-                    line: Line(local(c.line)),
-                    positive: c.positive,
-                })
-                .collect();
-            let lg = Gate::new(controls, Line(local(g.target()))).expect("distinct lines");
+            let lg = g.renamed(local).expect("distinct lines");
             images.iter_mut().for_each(|v| *v = lg.apply(*v));
             if j - i < 2 {
                 continue;
@@ -292,17 +267,11 @@ pub fn resynthesize_windows4(circuit: &mut Circuit) -> bool {
         }
         match best {
             Some((_, stop, found)) => {
-                for g in found {
-                    let controls = g
-                        .controls()
+                out.extend(
+                    found
                         .iter()
-                        .map(|c| crate::circuit::Control {
-                            line: set[c.line.index()],
-                            positive: c.positive,
-                        })
-                        .collect();
-                    out.push(Gate::new(controls, set[g.target().index()]).expect("distinct lines"));
-                }
+                        .map(|g| g.renamed(|l| set[l.index()]).expect("distinct lines")),
+                );
                 changed = true;
                 i = stop;
             }

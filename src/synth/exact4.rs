@@ -318,12 +318,33 @@ impl Least {
     }
 }
 
-/// Which orientations can hold the smallest form: the forms of `p` have top
-/// nibbles `SEND[k][p(15)]`, those of `p^-1` have `SEND[k][p^-1(15)]`, and
-/// the smaller weight wins (both on a tie).
-fn orientations(forward: u64, backward: u64) -> (bool, bool) {
-    let (a, b) = (forward.count_ones(), backward.count_ones());
-    (a <= b, b <= a)
+/// The smallest of the 48 forms of a function and how many forms equal it,
+/// given the image of 15 under the function (`top`) and under its inverse
+/// (`top_inverse`), the function's relabelling `k` (`form(k)`) and its
+/// inverse's (`inverse_form(k)`). A form's top nibble is the relabelled image
+/// of 15, `SEND[k][top]`, so only the relabellings in `LEAST` of the side of
+/// smaller weight can give the smallest form (both sides on a tie).
+fn least_form(
+    top: u64,
+    top_inverse: u64,
+    form: impl Fn(usize) -> Perm,
+    inverse_form: impl Fn(usize) -> Perm,
+) -> (Perm, u32) {
+    let (a, b) = (top.count_ones(), top_inverse.count_ones());
+    let mut least = Least::NONE;
+    if a <= b {
+        let (n, ks) = &LEAST[top as usize];
+        for &k in &ks[..*n] {
+            least.take(form(k as usize));
+        }
+    }
+    if b <= a {
+        let (n, ks) = &LEAST[top_inverse as usize];
+        for &k in &ks[..*n] {
+            least.take(inverse_form(k as usize));
+        }
+    }
+    (least.0, least.1)
 }
 
 /// The canonical member of the class of `p` (the smallest of the 48 forms
@@ -331,18 +352,12 @@ fn orientations(forward: u64, backward: u64) -> (bool, bool) {
 /// it (the size of the stabilizer, so the class has `48 / count` members).
 fn canonical(p: Perm) -> (Perm, u32) {
     let q = inverse(p);
-    let (v, u) = (image(p, 15), image(q, 15));
-    let (fwd, bwd) = orientations(v, u);
-    let mut least = Least::NONE;
-    for (go, f, top) in [(fwd, p, v), (bwd, q, u)] {
-        if go {
-            let (n, ks) = &LEAST[top as usize];
-            for &k in &ks[..*n] {
-                least.take(relabelled(f, k as usize));
-            }
-        }
-    }
-    (least.0, least.1)
+    least_form(
+        image(p, 15),
+        image(q, 15),
+        |k| relabelled(p, k),
+        |k| relabelled(q, k),
+    )
 }
 
 fn canon(p: Perm) -> Perm {
@@ -728,46 +743,23 @@ impl Neighbours {
         let mut out = [(0u64, 0u32); 64];
         for (g, gate) in gates.iter().enumerate() {
             let fire = |x: u64| x ^ (((x & gate.controls == gate.controls) as u64) << gate.target);
+            let h = |k: usize| self.relabelled[k][g] as usize;
             // g . r: forms g' . r' (top nibble from g(r(15))) and r'^-1 . g'
             // (top nibble from r^-1(g(15))).
-            let (v, u) = (fire(r15), image(ri, fire(15)));
-            let (fwd, bwd) = orientations(v, u);
-            let mut least = Least::NONE;
-            if fwd {
-                let (n, ks) = &LEAST[v as usize];
-                for &k in &ks[..*n] {
-                    let k = k as usize;
-                    least.take(after(ra[k], &fa[k], self.relabelled[k][g] as usize));
-                }
-            }
-            if bwd {
-                let (n, ks) = &LEAST[u as usize];
-                for &k in &ks[..*n] {
-                    let k = k as usize;
-                    least.take(before(rb[k], self.relabelled[k][g] as usize));
-                }
-            }
-            out[2 * g] = (least.0, least.1);
+            out[2 * g] = least_form(
+                fire(r15),
+                image(ri, fire(15)),
+                |k| after(ra[k], &fa[k], h(k)),
+                |k| before(rb[k], h(k)),
+            );
             // r . g: forms r' . g' (top nibble from r(g(15))) and g' . r'^-1
             // (top nibble from g(r^-1(15))).
-            let (v, u) = (image(r, fire(15)), fire(ri15));
-            let (fwd, bwd) = orientations(v, u);
-            let mut least = Least::NONE;
-            if fwd {
-                let (n, ks) = &LEAST[v as usize];
-                for &k in &ks[..*n] {
-                    let k = k as usize;
-                    least.take(before(ra[k], self.relabelled[k][g] as usize));
-                }
-            }
-            if bwd {
-                let (n, ks) = &LEAST[u as usize];
-                for &k in &ks[..*n] {
-                    let k = k as usize;
-                    least.take(after(rb[k], &fb[k], self.relabelled[k][g] as usize));
-                }
-            }
-            out[2 * g + 1] = (least.0, least.1);
+            out[2 * g + 1] = least_form(
+                image(r, fire(15)),
+                fire(ri15),
+                |k| before(ra[k], h(k)),
+                |k| after(rb[k], &fb[k], h(k)),
+            );
         }
         out
     }
