@@ -154,21 +154,8 @@ pub fn transform_function(f: &FunctionSpec, bidirectional: bool) -> Result<Circu
             hint: "it takes at most 16 inputs and outputs together; use esop or bennett",
         });
     }
-    let tables: Vec<_> = (0..m)
-        .map(|j| f.table(j).expect("within 16 inputs"))
-        .collect();
-    let images: Vec<u64> = (0..1u64 << (n + m))
-        .map(|s| {
-            let x = s & ((1 << n) - 1);
-            let fx = tables
-                .iter()
-                .enumerate()
-                .fold(0u64, |acc, (j, t)| acc | (t.get(x as usize) as u64) << j);
-            s ^ (fx << n)
-        })
-        .collect();
     let mut c = Circuit::new(function_lines(f));
-    for g in synthesize_images(images, n + m, bidirectional) {
+    for g in synthesize_images(xor_embedding(f), n + m, bidirectional) {
         c.push(g);
     }
     Ok(c)
