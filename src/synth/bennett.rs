@@ -338,13 +338,7 @@ fn pebble_steps(
     budget: Duration,
 ) -> Option<Option<Vec<Vec<usize>>>> {
     let count = p.needed.len();
-    let mut s: cadical::Solver<cadical::Timeout> = cadical::Solver::new();
-    s.set_callbacks(Some(cadical::Timeout::new(budget.as_secs_f32())));
-    let mut next = 0i32;
-    let mut var = || {
-        next += 1;
-        next
-    };
+    let (mut s, mut var) = super::sat_solver(budget);
     let pv: Vec<Vec<i32>> = (0..=steps)
         .map(|_| (0..count).map(|_| var()).collect())
         .collect();

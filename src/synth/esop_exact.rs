@@ -197,13 +197,7 @@ fn solve(tables: &[TruthTable], k: usize, budget: Duration) -> Option<Option<Eso
     let n = tables[0].vars();
     let m = tables.len();
     let points = 1usize << n;
-    let mut s: cadical::Solver<cadical::Timeout> = cadical::Solver::new();
-    s.set_callbacks(Some(cadical::Timeout::new(budget.as_secs_f32())));
-    let mut next = 0i32;
-    let mut var = || {
-        next += 1;
-        next
-    };
+    let (mut s, mut var) = super::sat_solver(budget);
     // care[j][i], pol[j][i], out[j][t]
     let care: Vec<Vec<i32>> = (0..k).map(|_| (0..n).map(|_| var()).collect()).collect();
     let pol: Vec<Vec<i32>> = (0..k).map(|_| (0..n).map(|_| var()).collect()).collect();

@@ -529,6 +529,20 @@ fn esop_exact_circuit(f: &FunctionSpec, limits: &SynthLimits) -> Result<Synthesi
     })
 }
 
+/// A CaDiCaL solver that gives up after `budget`, and a counter handing out
+/// its fresh variables (1, 2, ...), for the SAT encodings of synthesis.
+pub(crate) fn sat_solver(
+    budget: std::time::Duration,
+) -> (cadical::Solver<cadical::Timeout>, impl FnMut() -> i32) {
+    let mut s: cadical::Solver<cadical::Timeout> = cadical::Solver::new();
+    s.set_callbacks(Some(cadical::Timeout::new(budget.as_secs_f32())));
+    let mut next = 0i32;
+    (s, move || {
+        next += 1;
+        next
+    })
+}
+
 /// Refuses a truth-table method past `--max-inputs` (and the table limit).
 pub(crate) fn check_table_inputs(n: usize, limits: &SynthLimits) -> Result<(), SynthError> {
     let limit = limits.max_table_inputs.min(crate::logic::MAX_TABLE_VARS);
