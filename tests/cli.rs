@@ -3,7 +3,7 @@
 
 mod common;
 
-use common::{repo, run_in, text, workspace};
+use common::{repo, run_in, text, workspace, COST_FIELDS};
 
 #[test]
 fn readme_first_command_works_on_a_fresh_copy() {
@@ -58,16 +58,7 @@ fn every_demo_spec_synthesizes_and_verifies() {
         assert_eq!(o.status.code(), Some(0), "{spec}: {err}");
         let v: serde_json::Value = serde_json::from_str(&stdout).unwrap();
         assert_eq!(v["verification"]["verdict"], "proven", "{spec}");
-        for field in [
-            "qubits",
-            "mct",
-            "toffoli",
-            "cnot",
-            "not",
-            "depth",
-            "toffoli_depth",
-            "t_count",
-        ] {
+        for field in COST_FIELDS {
             assert!(
                 v["cost"].get(field).is_some(),
                 "{spec}: cost.{field} missing"

@@ -273,6 +273,18 @@ pub fn repo() -> std::path::PathBuf {
     std::path::PathBuf::from(env!("CARGO_MANIFEST_DIR"))
 }
 
+/// The fields of the cost report in JSON (docs/json.md).
+pub const COST_FIELDS: [&str; 8] = [
+    "qubits",
+    "mct",
+    "toffoli",
+    "cnot",
+    "not",
+    "depth",
+    "toffoli_depth",
+    "t_count",
+];
+
 /// Runs the real binary in `dir`, with the exact-synthesis cache in a
 /// temporary folder rather than the user's home.
 pub fn run_in(dir: &std::path::Path, args: &[&str]) -> std::process::Output {
