@@ -405,7 +405,7 @@ pub fn exact4_table() -> (&'static Exact4, Option<String>) {
         let t0 = std::time::Instant::now();
         for d in (DEFAULT_DEPTH..=MAX_DEPTH).rev() {
             let path = cache_path(d);
-            if let Some(t) = path.is_file().then(|| Exact4::load(&path)).flatten() {
+            if let Some(t) = Exact4::load(&path) {
                 let how = format!(
                     "exact: loaded the 4-line table of depth {d} from {} in {:.1} s",
                     path.display(),
