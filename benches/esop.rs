@@ -3,10 +3,11 @@
 mod common;
 use common::*;
 
-use oraculum::{
-    build_one, minimize_tables, parse_spec, BuildOptions, EsopTable, Method, SynthLimits,
-    TruthTable,
-};
+use oraculum::logic::TruthTable;
+use oraculum::pipeline::build_one;
+use oraculum::synth::minimize_tables;
+use oraculum::Tables;
+use oraculum::{parse_spec, BuildOptions, Method, SynthLimits};
 use std::time::Instant;
 
 fn random_spec(rng: &mut Mix, n: usize, m: usize) -> String {
@@ -28,7 +29,7 @@ fn random_spec(rng: &mut Mix, n: usize, m: usize) -> String {
 fn main() {
     // 1. The heuristic over every 4-input function, against the exact table.
     let t = Instant::now();
-    let exact = EsopTable::get(4);
+    let exact = Tables::get().esop(4);
     let (mut heur, mut opt, mut worse) = (0usize, 0usize, 0usize);
     for f in 0..65536u64 {
         let tt = TruthTable::from_words(4, &[f]);
@@ -60,8 +61,8 @@ fn main() {
         for k in 0..count {
             let m = 1 + k % 4;
             let spec = parse_spec("r", &random_spec(&mut rng, n, m)).unwrap();
-            let a = build_one(&spec, Method::ReedMuller, &no_verify, &|_, _| {}).unwrap();
-            let b = build_one(&spec, Method::Esop, &no_verify, &|_, _| {}).unwrap();
+            let a = build_one(&spec, Method::ReedMuller, &no_verify, &()).unwrap();
+            let b = build_one(&spec, Method::Esop, &no_verify, &()).unwrap();
             rm += a.cost.toffoli;
             es += b.cost.toffoli;
             secs += b.timings.synth;
@@ -87,7 +88,7 @@ fn main() {
     for (n, m) in [(16usize, 1usize), (16, 16), (20, 1)] {
         let spec = parse_spec("r", &random_spec(&mut rng, n, m)).unwrap();
         let t = Instant::now();
-        let o = build_one(&spec, Method::Esop, &big, &|_, _| {}).unwrap();
+        let o = build_one(&spec, Method::Esop, &big, &()).unwrap();
         println!(
             "random {n}-input {m}-output function: esop {} terms -> {} Toffoli, synth {:.2} s, lower {:.2} s (total {:.2} s)",
             o.cost.mct_total(),
@@ -128,7 +129,7 @@ fn main() {
     }
     let spec = parse_spec("s", &s).unwrap();
     let t = Instant::now();
-    let o = build_one(&spec, Method::Esop, &big, &|_, _| {}).unwrap();
+    let o = build_one(&spec, Method::Esop, &big, &()).unwrap();
     println!(
         "structured 20-input 16-output function: esop {} gates -> {} Toffoli, {} qubits, total {:.2} s",
         o.cost.mct_total(),

@@ -2,15 +2,16 @@
 //! plain Bennett's gate count beside 2G + m, and the 64-input spec's time.
 //! Run with `cargo bench --bench networks`.
 
-use oraculum::{
-    bennett_counts, build_one, parse_spec, tradeoff, BuildOptions, Method, SpecBody, SynthLimits,
-};
+use oraculum::pipeline::build_one;
+use oraculum::pipeline::tradeoff;
+use oraculum::synth::bennett_counts;
+use oraculum::{parse_spec, BuildOptions, Method, SpecBody, SynthLimits};
 use std::time::Instant;
 
 fn main() {
     let root = env!("CARGO_MANIFEST_DIR");
     let opts = BuildOptions {
-        method: Method::Bennett,
+        method: Some(Method::Bennett),
         limits: SynthLimits {
             exact_seconds: 20.0,
             ..SynthLimits::default()
@@ -55,7 +56,7 @@ fn main() {
             unreachable!()
         };
         let (g, m) = bennett_counts(f).unwrap();
-        let o = build_one(&s, Method::Bennett, &opts, &|_, _| {}).unwrap();
+        let o = build_one(&s, Method::Bennett, &opts, &()).unwrap();
         println!(
             "{name}: plain Bennett {} gates; forward G = {g}, copies m = {m}, 2G + m = {}",
             o.mct.gates().len(),
@@ -72,12 +73,12 @@ fn main() {
             verify: None,
             ..opts
         },
-        &|_, _| {},
+        &(),
     )
     .unwrap();
     let synth = t.elapsed().as_secs_f64();
     let t = Instant::now();
-    let v = build_one(&s, Method::Bennett, &opts, &|_, _| {}).unwrap();
+    let v = build_one(&s, Method::Bennett, &opts, &()).unwrap();
     println!(
         "badge-match (64 inputs): {} qubits, {} Toffoli; synthesized and lowered in {synth:.4} s; with SAT proof {:.3} s ({})",
         o.cost.qubits, o.cost.toffoli, t.elapsed().as_secs_f64(), v.verification.is_proven()

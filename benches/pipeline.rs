@@ -4,8 +4,9 @@
 mod common;
 use common::*;
 
+use oraculum::synth::synthesize;
 use oraculum::{
-    build, lower, parse_spec, synthesize, verify, BuildOptions, Method, SynthLimits, VerifyOptions,
+    build, lower, parse_spec, verify, BuildOptions, Method, SynthLimits, VerifyOptions,
 };
 use std::time::Instant;
 
@@ -26,7 +27,7 @@ fn main() {
 
     let spec = parse_spec("bench20", &xor_of_products(&mut rng, 20, 200)).unwrap();
     let lowered = lower(
-        &synthesize(&spec, Method::ReedMuller, &SynthLimits::default())
+        &synthesize(&spec, Method::ReedMuller, &SynthLimits::default(), &())
             .unwrap()
             .circuit,
     );
@@ -53,7 +54,7 @@ fn main() {
         let out = build(
             &spec,
             &BuildOptions {
-                method: Method::ReedMuller,
+                method: Some(Method::ReedMuller),
                 verify: Some(VerifyOptions::default()),
                 ..Default::default()
             },

@@ -4,7 +4,11 @@
 mod common;
 use common::*;
 
-use oraculum::{lower, optimize, transform_with, Circuit, Exact3, Permutation};
+use oraculum::logic::Permutation;
+use oraculum::opt::optimize;
+use oraculum::synth::transform_with;
+use oraculum::Tables;
+use oraculum::{lower, Circuit};
 use std::time::Instant;
 
 fn all_perms(n: usize) -> Vec<Vec<u64>> {
@@ -57,7 +61,7 @@ fn main() {
     println!("| method | functions | average gates (MCT, mixed polarity) | average gates after lowering (NOT, CNOT, Toffoli) | time per function |");
     println!("|---|---|---|---|---|");
     let t = Instant::now();
-    let table = Exact3::get();
+    let table = Tables::get().exact3(3);
     println!(
         "(3-line exact table built in {:.3} s)",
         t.elapsed().as_secs_f64()
@@ -79,7 +83,7 @@ fn main() {
         c
     });
     row("3 lines: exact", &three, 3, |p| {
-        let mut c = Circuit::new(oraculum::permutation_lines(3));
+        let mut c = Circuit::new(oraculum::spec::permutation_layout(3).lines());
         for g in table.circuit(p.images()) {
             c.push(g);
         }
@@ -127,7 +131,7 @@ fn exact4(four: &[Vec<u64>]) {
     let depth = env("ORACULUM_BENCH_DEPTH", 7) as u8;
     let n = env("ORACULUM_BENCH_SAMPLE", 1000).min(four.len());
     let t = Instant::now();
-    let table = oraculum::Exact4::build(depth, &|_| {});
+    let table = oraculum::exact::Exact4::build(depth, &|_| {});
     println!(
         "(4-line table of depth {depth} built in {:.1} s: classes per gate count {:?}, functions {:?})",
         t.elapsed().as_secs_f64(),
@@ -151,7 +155,7 @@ fn exact4(four: &[Vec<u64>]) {
             );
             continue;
         }
-        let mut c = Circuit::new(oraculum::permutation_lines(4));
+        let mut c = Circuit::new(oraculum::spec::permutation_layout(4).lines());
         for g in r.gates {
             c.push(g);
         }

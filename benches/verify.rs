@@ -6,9 +6,11 @@
 mod common;
 use common::*;
 
+use oraculum::pipeline::build_one;
+use oraculum::synth::synthesize;
+use oraculum::verify::BLOCK_WORDS;
 use oraculum::{
-    build_one, lower, parse_spec, synthesize, verify, BuildOptions, Method, Route, SynthLimits,
-    Verdict, VerifyOptions, BLOCK_WORDS,
+    lower, parse_spec, verify, BuildOptions, Method, Route, SynthLimits, Verdict, VerifyOptions,
 };
 use std::hint::black_box;
 use std::time::Instant;
@@ -29,7 +31,7 @@ fn main() {
     let mut rng = Mix(7);
     let spec = parse_spec("bench", &xor_of_products(&mut rng, 20, 200)).unwrap();
     let c = lower(
-        &synthesize(&spec, Method::ReedMuller, &SynthLimits::default())
+        &synthesize(&spec, Method::ReedMuller, &SynthLimits::default(), &())
             .unwrap()
             .circuit,
     );
@@ -125,7 +127,7 @@ fn main() {
                 verify: None,
                 ..Default::default()
             },
-            &|_, _| {},
+            &(),
         )
         .unwrap();
         let sat = VerifyOptions {

@@ -1,7 +1,7 @@
 //! The library API: build a spec in code, synthesize, verify, export.
 //! Run with `cargo run --release --example library`.
 
-use oraculum::{build, parse_spec, BuildOptions, Method, Verification, VerifyOptions};
+use oraculum::{build, parse_spec, BuildOptions, Verification, VerifyOptions};
 
 fn main() {
     // A spec is TOML text; here it is built in code: a 3-of-5 vote.
@@ -26,7 +26,6 @@ fn main() {
     let out = build(
         &spec,
         &BuildOptions {
-            method: Method::Auto,
             verify: Some(VerifyOptions::default()),
             ..Default::default()
         },

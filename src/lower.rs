@@ -8,11 +8,8 @@
 //! 0 after every gate. A final [`cancel_pairs`] pass removes the NOT pairs and the
 //! uncompute/recompute pairs that neighbouring gates share.
 
-use crate::circuit::{Circuit, Control, Gate, Line, LineInfo, Role};
-use crate::opt::cancel_pairs;
-
-/// Name of the ancilla register.
-pub const ANCILLA_REGISTER: &str = "anc";
+use crate::circuit::rewrite::cancel_pairs;
+use crate::circuit::{Circuit, Control, Gate, Line};
 
 /// Lowers `circuit` to gates with at most two positive controls, adding the
 /// ancilla lines it needs to the `anc` register.
@@ -20,17 +17,7 @@ pub fn lower(circuit: &Circuit) -> Circuit {
     let need = circuit.max_controls().saturating_sub(2);
     let mut out = circuit.clone();
     out.set_gates(Vec::new());
-    let first = out.register(ANCILLA_REGISTER).len() as u32;
-    let pool: Vec<Line> = (0..need as u32)
-        .map(|i| {
-            out.add_line(LineInfo {
-                register: ANCILLA_REGISTER.into(),
-                index: first + i,
-                role: Role::Ancilla,
-                label: format!("anc{}", first + i),
-            })
-        })
-        .collect();
+    let pool: Vec<Line> = (0..need).map(|_| out.add_ancilla()).collect();
     let mut gates = Vec::with_capacity(circuit.gates().len() * 2);
     for g in circuit.gates() {
         let negatives: Vec<Line> = g

@@ -3,29 +3,35 @@
 use crate::circuit::{Circuit, Control, Gate, Line};
 
 /// The kinds of fault.
-#[derive(Clone, Copy, Debug, PartialEq, Eq, Hash)]
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Hash, strum::EnumIter, strum::EnumMessage)]
 pub enum Fault {
     /// A gate removed.
+    #[strum(message = "drop a gate")]
     DropGate,
     /// One control's polarity flipped.
+    #[strum(message = "flip a control")]
     FlipControl,
     /// A gate's target moved to another line.
+    #[strum(message = "move a target")]
     MoveTarget,
     /// A control added on a line the gate does not use.
+    #[strum(message = "add a control")]
     AddControl,
     /// A NOT gate inserted.
+    #[strum(message = "add a gate")]
     AddGate,
 }
 
 impl Fault {
-    /// Every kind, with its name.
-    pub const ALL: [(Fault, &'static str); 5] = [
-        (Fault::DropGate, "drop a gate"),
-        (Fault::FlipControl, "flip a control"),
-        (Fault::MoveTarget, "move a target"),
-        (Fault::AddControl, "add a control"),
-        (Fault::AddGate, "add a gate"),
-    ];
+    /// Every kind of fault.
+    pub fn all() -> impl Iterator<Item = Fault> {
+        <Fault as strum::IntoEnumIterator>::iter()
+    }
+
+    /// The fault in words.
+    pub fn name(self) -> &'static str {
+        strum::EnumMessage::get_message(&self).unwrap_or("")
+    }
 }
 
 /// Every single-fault mutant of `c`: each gate dropped; each control flipped;

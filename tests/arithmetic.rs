@@ -7,6 +7,7 @@ use common::*;
 use oraculum::{build, parse_spec, BuildOptions, Outcome, Verdict, Verification, VerifyOptions};
 
 fn build_spec(text: &str, verify: bool) -> Outcome {
+    common::tables();
     let spec = parse_spec("arith.toml", text).unwrap_or_else(|e| panic!("{e}\n{text}"));
     build(
         &spec,

@@ -4,10 +4,9 @@
 
 mod common;
 
-use oraculum::{
-    build_one, parse_expr, parse_spec, read_qasm, verify, BuildOptions, Method, SynthLimits,
-    VerifyOptions,
-};
+use oraculum::logic::parse_expr;
+use oraculum::pipeline::build_one;
+use oraculum::{parse_spec, read_qasm, verify, BuildOptions, Method, SynthLimits, VerifyOptions};
 use proptest::prelude::*;
 
 fn demo_texts() -> Vec<String> {
@@ -22,8 +21,9 @@ fn demo_texts() -> Vec<String> {
 
 /// Small limits, so that whatever parses also runs quickly.
 fn small() -> BuildOptions {
+    common::tables();
     BuildOptions {
-        method: Method::Auto,
+        method: None,
         limits: SynthLimits {
             max_table_inputs: 10,
             max_gates: 5_000,
@@ -91,7 +91,7 @@ proptest! {
         let text = apply(&texts[pick.index(texts.len())], &e);
         match parse_spec("fuzz.toml", &text) {
             Ok(spec) => {
-                let _ = build_one(&spec, Method::Auto, &small(), &|_, _| {});
+                let _ = oraculum::build(&spec, &small());
             }
             Err(err) => {
                 // Every error has a place in the file.
@@ -119,7 +119,7 @@ proptest! {
     #[test]
     fn mutated_qasm_never_panics(e in edits()) {
         let spec = parse_spec("g.toml", &demo_texts().into_iter().find(|t| t.contains("greenhouse")).unwrap()).unwrap();
-        let out = build_one(&spec, Method::Esop, &BuildOptions::default(), &|_, _| {}).unwrap();
+        let out = build_one(&spec, Method::Esop, &BuildOptions::default(), &()).unwrap();
         let text = apply(&out.qasm().unwrap(), &e);
         if let Ok(c) = read_qasm("fuzz.qasm", &text) {
             let _ = verify(&c, &spec, &small().verify.unwrap());

@@ -4,15 +4,18 @@
 mod common;
 
 use common::*;
+use oraculum::pipeline::build_one;
+use oraculum::synth::bennett_counts;
 use oraculum::{
-    bennett_counts, build_one, parse_spec, read_qasm, BuildOptions, Method, SpecBody, SynthError,
-    SynthLimits, Verdict, Verification,
+    parse_spec, read_qasm, BuildOptions, Method, SpecBody, SynthError, SynthLimits, Verdict,
+    Verification,
 };
 use proptest::prelude::*;
 
 fn with_budget(q: Option<usize>) -> BuildOptions {
+    common::tables();
     BuildOptions {
-        method: Method::Bennett,
+        method: Some(Method::Bennett),
         limits: SynthLimits {
             max_qubits: q,
             exact_seconds: 5.0,
@@ -47,7 +50,7 @@ proptest! {
         let names = input_names(n);
         let texts: Vec<String> = es.iter().map(|e| e.render(&names)).collect();
         let spec = parse_spec("net.toml", &expr_spec(n, &texts)).unwrap();
-        let plain = build_one(&spec, Method::Bennett, &with_budget(None), &|_, _| {}).unwrap();
+        let plain = build_one(&spec, Method::Bennett, &with_budget(None), &()).unwrap();
         prop_assert!(plain.verification.is_proven());
         // The test's own check on every input.
         for x in 0..1u64 << n {
@@ -59,7 +62,7 @@ proptest! {
         let mut q = plain.cost.qubits;
         while q > n + es.len() {
             q -= 1;
-            match build_one(&spec, Method::Bennett, &with_budget(Some(q)), &|_, _| {}) {
+            match build_one(&spec, Method::Bennett, &with_budget(Some(q)), &()) {
                 Ok(o) => {
                     prop_assert!(o.verification.is_proven(), "budget {}", q);
                     prop_assert!(o.cost.qubits <= q);
@@ -92,7 +95,7 @@ fn plain_bennett_has_2g_plus_m_gates() {
     };
     let (g, m) = bennett_counts(f).unwrap();
     assert_eq!(m, 3, "each output is a single node: one copy each");
-    let out = build_one(&spec, Method::Bennett, &with_budget(None), &|_, _| {}).unwrap();
+    let out = build_one(&spec, Method::Bennett, &with_budget(None), &()).unwrap();
     assert_eq!(out.mct.gates().len(), 2 * g + m);
     assert!(out.verification.is_proven());
 }
@@ -105,7 +108,7 @@ fn a_64_input_spec_is_proven_by_sat() {
     ))
     .unwrap();
     let spec = parse_spec("badge-match.toml", &text).unwrap();
-    let out = build_one(&spec, Method::Bennett, &with_budget(None), &|_, _| {}).unwrap();
+    let out = build_one(&spec, Method::Bennett, &with_budget(None), &()).unwrap();
     match out.verification {
         Verification::Ran(Verdict::Proven { by, free_bits, .. }) => {
             assert_eq!(by, "sat");
@@ -134,7 +137,7 @@ fn phase_oracle_on_a_statevector_simulator() {
     ))
     .unwrap();
     let spec = parse_spec("vault.toml", &text).unwrap();
-    let out = build_one(&spec, Method::Esop, &with_budget(None), &|_, _| {}).unwrap();
+    let out = build_one(&spec, Method::Esop, &with_budget(None), &()).unwrap();
     assert!(out.verification.is_proven());
     let qasm = out.qasm().unwrap();
     assert_eq!(qasm.matches("\nh ").count(), 2);
@@ -198,17 +201,11 @@ fn impossible_budget_names_one_that_works() {
     ))
     .unwrap();
     let spec = parse_spec("rota.toml", &text).unwrap();
-    let e = build_one(&spec, Method::Bennett, &with_budget(Some(10)), &|_, _| {}).unwrap_err();
+    let e = build_one(&spec, Method::Bennett, &with_budget(Some(10)), &()).unwrap_err();
     let oraculum::BuildError::Synth(SynthError::Budget { budget, needed }) = e else {
         panic!("{e}")
     };
     assert_eq!(budget, 10);
-    let o = build_one(
-        &spec,
-        Method::Bennett,
-        &with_budget(Some(needed)),
-        &|_, _| {},
-    )
-    .unwrap();
+    let o = build_one(&spec, Method::Bennett, &with_budget(Some(needed)), &()).unwrap();
     assert!(o.verification.is_proven() && o.cost.qubits <= needed);
 }

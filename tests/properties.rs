@@ -4,18 +4,25 @@
 mod common;
 
 use common::*;
+use oraculum::synth::esop_of;
+use oraculum::synth::exact_esop;
 use oraculum::{
-    build, esop_of, exact_esop, parse_spec, verify, BuildOptions, Circuit, Method, SpecBody,
-    SynthLimits, Verdict, Verification, VerifyOptions,
+    build, parse_spec, verify, BuildOptions, Circuit, Method, SpecBody, SynthLimits, Verdict,
+    Verification, VerifyOptions,
 };
 use proptest::prelude::*;
 use std::time::Duration;
 
 fn built(toml: &str) -> oraculum::Outcome {
-    built_with(toml, Method::Auto)
+    run(toml, None)
 }
 
 fn built_with(toml: &str, method: Method) -> oraculum::Outcome {
+    run(toml, Some(method))
+}
+
+fn run(toml: &str, method: Option<Method>) -> oraculum::Outcome {
+    common::tables();
     let spec = parse_spec("random.toml", toml).expect("generated specs are valid");
     build(
         &spec,
@@ -188,7 +195,7 @@ fn skipped_verification_is_reported_as_skipped() {
     let out = build(
         &spec,
         &BuildOptions {
-            method: Method::Auto,
+            method: None,
             verify: None,
             ..Default::default()
         },
@@ -207,7 +214,7 @@ proptest! {
     #[test]
     fn optimizer_keeps_the_function(c in (1usize..=8).prop_flat_map(|w| arb_circuit(w, 60))) {
         let mut o = c.clone();
-        oraculum::optimize(&mut o);
+        oraculum::opt::optimize(&mut o);
         prop_assert!(o.gates().len() <= c.gates().len());
         prop_assert!(oraculum::lower(&o).gates().len() <= oraculum::lower(&c).gates().len());
         for s in 0..1u64 << c.width() {

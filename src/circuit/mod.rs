@@ -1,6 +1,8 @@
 //! Lines, multi-controlled Toffoli (MCT) gates with mixed-polarity controls, and circuits.
 
 mod cost;
+pub mod layout;
+pub mod rewrite;
 
 pub use cost::Cost;
 
@@ -175,6 +177,9 @@ impl Gate {
 pub struct Circuit {
     lines: Vec<LineInfo>,
     gates: Vec<Gate>,
+    /// Lines of the ancilla register, so that adding one is constant time.
+    #[serde(skip)]
+    ancillae: u32,
 }
 
 /// A gate referred to a line that the circuit does not have.
@@ -192,9 +197,11 @@ pub struct LineOutOfRange {
 impl Circuit {
     /// An empty circuit on the given lines.
     pub fn new(lines: Vec<LineInfo>) -> Self {
+        let ancillae = count_ancillae(&lines);
         Circuit {
             lines,
             gates: Vec::new(),
+            ancillae,
         }
     }
 
@@ -216,7 +223,12 @@ impl Circuit {
                 });
             }
         }
-        Ok(Circuit { lines, gates })
+        let ancillae = count_ancillae(&lines);
+        Ok(Circuit {
+            lines,
+            gates,
+            ancillae,
+        })
     }
 
     /// Appends a gate. Panics in debug builds if it names a missing line.
@@ -231,6 +243,7 @@ impl Circuit {
 
     /// Adds a line and returns its index.
     pub fn add_line(&mut self, info: LineInfo) -> Line {
+        self.ancillae += (info.register == layout::ANCILLAE) as u32;
         self.lines.push(info);
         Line(self.lines.len() as u32 - 1)
     }
@@ -293,6 +306,13 @@ impl Circuit {
     pub fn simulate(&self, state: u64) -> u64 {
         self.gates.iter().fold(state, |s, g| g.apply(s))
     }
+}
+
+fn count_ancillae(lines: &[LineInfo]) -> u32 {
+    lines
+        .iter()
+        .filter(|l| l.register == layout::ANCILLAE)
+        .count() as u32
 }
 
 /// `n` data lines `q[0..n]`, for unit tests.

@@ -1,6 +1,7 @@
-//! Writers and readers: OpenQASM 2 (both ways) and a plain text listing.
+//! Writers and readers: OpenQASM 2 (both ways), a plain text listing, drawings and the JSON reports.
 
 mod draw;
+pub mod json;
 mod qasm2;
 mod text;
 

@@ -1,7 +1,7 @@
 //! OpenQASM 2 (Cross, Bishop, Smolin, Gambetta 2017): write lowered circuits, read `x`/`cx`/`ccx` files.
 
 use crate::circuit::{Circuit, Control, Cost, Gate, Line, LineInfo, Role};
-use crate::spec::{LocatedError, Source};
+use crate::source::{LocatedError, Source};
 use std::fmt::Write as _;
 
 /// What goes into the header comments.
@@ -111,6 +111,28 @@ pub fn write_qasm(c: &Circuit, header: &QasmHeader) -> Result<String, WriteError
         let _ = writeln!(s, "h {};\nx {};", q(p), q(p));
     }
     Ok(s)
+}
+
+impl crate::pipeline::Outcome {
+    /// The lowered circuit as OpenQASM 2, with the header of design.md.
+    pub fn qasm(&self) -> Result<String, WriteError> {
+        write_qasm(
+            &self.lowered,
+            &QasmHeader {
+                name: self.name.clone(),
+                method: Some(self.method.name().to_string()),
+                cost: Some(self.cost.clone()),
+                phase: (self.form == crate::spec::OracleForm::Phase)
+                    .then(|| {
+                        self.lowered
+                            .register(crate::circuit::layout::OUTPUTS)
+                            .first()
+                            .copied()
+                    })
+                    .flatten(),
+            },
+        )
+    }
 }
 
 /// Blanks out `//` comments, keeping every byte offset.
@@ -399,7 +421,7 @@ mod tests {
         let e = read_qasm("t.qasm", "OPENQASM 2.0;\nqreg q[2];\ncx q[0], q[5];\n").unwrap_err();
         assert_eq!((e.location.line, e.location.column), (3, 10));
         let e = read_qasm("t.qasm", "OPENQASM 2.0;\nqreg q[2];\ncx q[1],q[1];\n").unwrap_err();
-        assert!(e.message.contains("same qubit"), "{e}");
+        assert!(e.message().contains("same qubit"), "{e}");
         assert!(read_qasm("t.qasm", "qreg q[2];").is_err());
         assert!(read_qasm("t.qasm", "OPENQASM 2.0;\nqreg q[2]").is_err());
     }

@@ -1,7 +1,7 @@
 //! Logic networks: a DAG of two-input AND and XOR nodes over the inputs, with
 //! complemented edges, constants folded and equal nodes merged.
 
-use super::Expr;
+use super::expr::{Dag, NodeId, Term};
 use std::collections::HashMap;
 
 /// A node's value, possibly complemented: node 0 is the constant 0, so
@@ -48,6 +48,14 @@ pub enum Node {
     And(Lit, Lit),
     /// The XOR of two uncomplemented literals.
     Xor(Lit, Lit),
+}
+
+/// The kind of an n-ary node being balanced into two-input ones.
+#[derive(Clone, Copy, PartialEq, Eq)]
+enum Kind {
+    And,
+    Or,
+    Xor,
 }
 
 /// A logic network with named outputs.
@@ -145,42 +153,76 @@ impl Network {
         }
     }
 
-    /// Builds the network of an expression over this network's inputs.
-    pub fn expr(&mut self, e: &Expr) -> Lit {
-        match e {
-            Expr::Const(b) => {
-                if *b {
-                    Lit::TRUE
-                } else {
-                    Lit::FALSE
-                }
+    /// Builds the network of node `root` of `dag` over this network's
+    /// inputs; `memo` (one entry per node of `dag`, `None` at first) keeps
+    /// what was built, so shared nodes are built once. The walk is
+    /// depth-first from `root`, operands left to right, without recursion.
+    pub fn dag(&mut self, dag: &Dag, root: NodeId, memo: &mut [Option<Lit>]) -> Lit {
+        // (node, operands visited so far)
+        let mut stack: Vec<(NodeId, usize)> = vec![(root, 0)];
+        while let Some(&mut (v, ref mut next)) = stack.last_mut() {
+            if memo[v as usize].is_some() {
+                stack.pop();
+                continue;
             }
-            Expr::Var(j) => self.input(*j),
-            Expr::Not(a) => self.expr(a).inverted(),
-            Expr::And(v) | Expr::Or(v) | Expr::Xor(v) => {
-                // Balanced, so that chains of n terms have depth log n; repeated
-                // terms are merged first (x & x = x, x ^ x = 0).
-                let mut lits: Vec<Lit> = v.iter().map(|a| self.expr(a)).collect();
-                lits.sort();
-                if matches!(e, Expr::Xor(_)) {
-                    let mut kept: Vec<Lit> = Vec::new();
-                    for l in lits {
-                        if kept.last() == Some(&l) {
-                            kept.pop();
-                        } else {
-                            kept.push(l);
-                        }
+            let t = dag.term(v);
+            let operands: &[NodeId] = match &t {
+                Term::Not(a) => std::slice::from_ref(a),
+                _ => dag.operands(&t),
+            };
+            if let Some(&a) = operands.get(*next) {
+                *next += 1;
+                if memo[a as usize].is_none() {
+                    stack.push((a, 0));
+                }
+                continue;
+            }
+            let lit = match t {
+                Term::Const(b) => {
+                    if b {
+                        Lit::TRUE
+                    } else {
+                        Lit::FALSE
                     }
-                    lits = kept;
-                } else {
-                    lits.dedup();
                 }
-                self.reduce(&lits, e)
-            }
+                Term::Var(j) => self.input(j as usize),
+                Term::Not(a) => memo[a as usize].expect("built").inverted(),
+                Term::And(_) | Term::Or(_) | Term::Xor(_) => {
+                    // Balanced, so that chains of n terms have depth log n;
+                    // repeated terms are merged first (x & x = x, x ^ x = 0).
+                    let mut lits: Vec<Lit> = operands
+                        .iter()
+                        .map(|&a| memo[a as usize].expect("built"))
+                        .collect();
+                    lits.sort();
+                    let kind = match t {
+                        Term::And(_) => Kind::And,
+                        Term::Or(_) => Kind::Or,
+                        _ => Kind::Xor,
+                    };
+                    if kind == Kind::Xor {
+                        let mut kept: Vec<Lit> = Vec::new();
+                        for l in lits {
+                            if kept.last() == Some(&l) {
+                                kept.pop();
+                            } else {
+                                kept.push(l);
+                            }
+                        }
+                        lits = kept;
+                    } else {
+                        lits.dedup();
+                    }
+                    self.reduce(&lits, kind)
+                }
+            };
+            memo[v as usize] = Some(lit);
+            stack.pop();
         }
+        memo[root as usize].expect("built")
     }
 
-    fn reduce(&mut self, lits: &[Lit], kind: &Expr) -> Lit {
+    fn reduce(&mut self, lits: &[Lit], kind: Kind) -> Lit {
         match lits.len() {
             0 => Lit::FALSE,
             1 => lits[0],
@@ -188,9 +230,9 @@ impl Network {
                 let a = self.reduce(&lits[..n / 2], kind);
                 let b = self.reduce(&lits[n / 2..], kind);
                 match kind {
-                    Expr::And(_) => self.and(a, b),
-                    Expr::Or(_) => self.or(a, b),
-                    _ => self.xor(a, b),
+                    Kind::And => self.and(a, b),
+                    Kind::Or => self.or(a, b),
+                    Kind::Xor => self.xor(a, b),
                 }
             }
         }
@@ -228,17 +270,17 @@ mod tests {
     #[test]
     fn folding_and_merging() {
         let names: Vec<String> = ["a", "b", "c"].iter().map(|s| s.to_string()).collect();
-        let e = parse_expr("(a & b) ^ (b & a) ^ c | 0 & a", &names).unwrap();
+        let (d, e) = parse_expr("(a & b) ^ (b & a) ^ c | 0 & a", &names).unwrap();
         let mut n = Network::new(3);
-        let out = n.expr(&e);
+        let out = n.dag(&d, e, &mut vec![None; d.len()]);
         // (a&b) ^ (a&b) folds to 0: the result is c alone.
         assert_eq!(out, n.input(2));
-        let e = parse_expr("a & b | !a & !b", &names).unwrap();
+        let (d, e) = parse_expr("a & b | !a & !b", &names).unwrap();
         let mut n = Network::new(3);
-        let out = n.expr(&e);
+        let out = n.dag(&d, e, &mut vec![None; d.len()]);
         for x in 0..8 {
             let v = n.simulate(x);
-            assert_eq!(v[out.node] ^ out.neg, e.eval(x));
+            assert_eq!(v[out.node] ^ out.neg, d.eval(e, x));
         }
     }
 }

@@ -1,6 +1,5 @@
 //! Truth tables over `n` inputs, stored little-endian in a bit vector (bit `i` is `f(i)`).
 
-use super::Expr;
 use bitvec::prelude::*;
 
 /// Bit `k` of `VAR_PATTERN[i]` is bit `i` of `k`: input `i < 6` across the 64
@@ -68,19 +67,6 @@ impl TruthTable {
         }
         if n < 64 {
             raw[0] &= (1u64 << n) - 1;
-        }
-        t
-    }
-
-    /// Evaluates an expression on every input, 64 inputs per machine word.
-    pub fn from_expr(vars: usize, expr: &Expr) -> Self {
-        let mut t = TruthTable::zeros(vars);
-        let n = t.len();
-        for (w, word) in t.bits.as_raw_mut_slice().iter_mut().enumerate() {
-            *word = expr.eval_word(w as u64);
-        }
-        if n < 64 {
-            t.bits.as_raw_mut_slice()[0] &= (1u64 << n) - 1;
         }
         t
     }

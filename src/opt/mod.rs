@@ -1,46 +1,17 @@
-//! Optimization passes that keep the function and never add a gate.
+//! Optimization passes that keep the function and never add a gate, and the
+//! driver that runs them: pair cancellation ([`crate::circuit::rewrite`]),
+//! merging, and exact rewriting of windows of three and four lines.
 
-use crate::circuit::{Circuit, Gate, Line};
+mod merge;
+mod window3;
+mod window4;
 
-/// How far back (in live gates) [`cancel_pairs`] looks for a partner.
-pub const CANCEL_WINDOW: usize = 256;
+pub use merge::merge_pairs;
+pub use window3::resynthesize_windows;
+pub use window4::{resynthesize_windows4, WINDOW4_GATES};
 
-/// Removes pairs of identical gates that can be moved next to each other through
-/// gates they commute with (two MCT gates commute when neither target is a
-/// control of the other). Each gate looks back at most [`CANCEL_WINDOW`] live
-/// gates. Removing a pair of equal self-inverse gates that are adjacent up to
-/// commutation keeps the function; the count only falls.
-///
-/// Complexity: `O(G * CANCEL_WINDOW * c)` for `G` gates with up to `c` controls.
-pub fn cancel_pairs(circuit: &mut Circuit) {
-    let mut out: Vec<Option<Gate>> = Vec::with_capacity(circuit.gates().len());
-    // Indices of live entries of `out`, so tombstones cost nothing to skip.
-    let mut live: Vec<usize> = Vec::with_capacity(circuit.gates().len());
-    for g in circuit.gates() {
-        let mut partner = None;
-        for (k, &idx) in live.iter().enumerate().rev().take(CANCEL_WINDOW) {
-            let prev = out[idx].as_ref().expect("live entries hold gates");
-            if prev == g {
-                partner = Some(k);
-                break;
-            }
-            if !prev.commutes_with(g) {
-                break;
-            }
-        }
-        match partner {
-            Some(k) => {
-                let idx = live.remove(k);
-                out[idx] = None;
-            }
-            None => {
-                live.push(out.len());
-                out.push(Some(g.clone()));
-            }
-        }
-    }
-    circuit.set_gates(out.into_iter().flatten().collect());
-}
+use crate::circuit::rewrite::cancel_pairs;
+use crate::circuit::{Circuit, Gate};
 
 /// The cost of a gate once lowered, as (Toffolis, NOT + CNOT + Toffoli gates):
 /// `k >= 3` controls take `2k - 3` Toffolis, each negative control two NOTs.
@@ -60,229 +31,6 @@ fn total_cost<'a>(gates: impl IntoIterator<Item = &'a Gate>) -> (usize, usize) {
         .into_iter()
         .map(lowered_cost)
         .fold((0, 0), |a, c| (a.0 + c.0, a.1 + c.1))
-}
-
-/// Merges pairs of gates on the same target that can be brought together
-/// through commuting gates: controls equal but for one polarity (`C x` and
-/// `C !x` make `C`), or one control more (`C` and `C x` make `C !x`). A merge
-/// is made only when it lowers the lowered cost (Toffolis first, then gates).
-pub fn merge_pairs(circuit: &mut Circuit) -> bool {
-    let mut out: Vec<Option<Gate>> = Vec::with_capacity(circuit.gates().len());
-    let mut live: Vec<usize> = Vec::new();
-    let mut changed = false;
-    for g in circuit.gates() {
-        let mut merged = None;
-        for &idx in live.iter().rev().take(CANCEL_WINDOW) {
-            let prev = out[idx].as_ref().expect("live entries hold gates");
-            if prev.target() == g.target() {
-                if let Some(m) = merge(prev, g) {
-                    if lowered_cost(&m) < total_cost([prev, g]) {
-                        merged = Some((idx, m));
-                        break;
-                    }
-                }
-            }
-            if !prev.commutes_with(g) {
-                break;
-            }
-        }
-        match merged {
-            Some((idx, m)) => {
-                out[idx] = Some(m);
-                changed = true;
-            }
-            None => {
-                live.push(out.len());
-                out.push(Some(g.clone()));
-            }
-        }
-    }
-    circuit.set_gates(out.into_iter().flatten().collect());
-    changed
-}
-
-fn merge(a: &Gate, b: &Gate) -> Option<Gate> {
-    let (ca, cb) = (a.controls(), b.controls());
-    let (long, short) = if ca.len() >= cb.len() {
-        (ca, cb)
-    } else {
-        (cb, ca)
-    };
-    if long.len() == short.len() {
-        let differ: Vec<usize> = (0..long.len()).filter(|&i| long[i] != short[i]).collect();
-        if let [i] = differ.as_slice() {
-            if long[*i].line == short[*i].line {
-                let mut c = long.to_vec();
-                c.remove(*i);
-                return Gate::new(c, a.target());
-            }
-        }
-        return None;
-    }
-    if long.len() != short.len() + 1 || !short.iter().all(|c| long.contains(c)) {
-        return None;
-    }
-    let extra = long
-        .iter()
-        .find(|c| !short.contains(c))
-        .expect("one control more");
-    let mut c = short.to_vec();
-    c.push(crate::circuit::Control {
-        line: extra.line,
-        positive: !extra.positive,
-    });
-    Gate::new(c, a.target())
-}
-
-/// Replaces every run of consecutive gates acting within at most three lines by
-/// an optimal circuit of the same function from the exact 3-line table, when
-/// that lowers the lowered cost (Toffolis first, then gates). This covers
-/// every rewrite a template on three lines could make.
-pub fn resynthesize_windows(circuit: &mut Circuit) -> bool {
-    let gates = circuit.gates().to_vec();
-    let mut out: Vec<Gate> = Vec::with_capacity(gates.len());
-    let mut changed = false;
-    let lines_of = |g: &Gate| -> Vec<Line> {
-        let mut v: Vec<Line> = g.controls().iter().map(|c| c.line).collect();
-        v.push(g.target());
-        v
-    };
-    let mut i = 0;
-    while i < gates.len() {
-        let mut set: Vec<Line> = lines_of(&gates[i]);
-        set.sort();
-        set.dedup();
-        if set.len() > 3 {
-            out.push(gates[i].clone());
-            i += 1;
-            continue;
-        }
-        let mut j = i + 1;
-        while j < gates.len() {
-            let mut u = set.clone();
-            u.extend(lines_of(&gates[j]));
-            u.sort();
-            u.dedup();
-            if u.len() > 3 {
-                break;
-            }
-            set = u;
-            j += 1;
-        }
-        let window = &gates[i..j];
-        let k = set.len();
-        let local = |l: Line| Line(set.iter().position(|&x| x == l).expect("in the window") as u32);
-        let local_gates: Vec<Gate> = window
-            .iter()
-            .map(|g| g.renamed(local).expect("distinct lines"))
-            .collect();
-        let images: Vec<u64> = (0..1u64 << k)
-            .map(|s| local_gates.iter().fold(s, |st, g| g.apply(st)))
-            .collect();
-        let best = crate::synth::Exact3::for_width(k).circuit(&images);
-        if total_cost(&best) < total_cost(window) {
-            out.extend(
-                best.iter()
-                    .map(|g| g.renamed(|l| set[l.index()]).expect("distinct lines")),
-            );
-            changed = true;
-        } else {
-            out.extend(window.iter().cloned());
-        }
-        i = j;
-    }
-    circuit.set_gates(out);
-    changed
-}
-
-/// Longest run of gates [`resynthesize_windows4`] replaces.
-pub const WINDOW4_GATES: usize = 20;
-
-/// Replaces runs of consecutive gates acting within four lines by a minimum
-/// circuit of the same function, when the 4-line table of small depth
-/// ([`crate::synth::WINDOW_DEPTH`] gates) knows one with lower lowered cost
-/// (Toffolis first, then gates) and no more controls per gate than the run
-/// had (so lowering needs no extra ancilla). Every run starting at each gate,
-/// up to [`WINDOW4_GATES`] long, is tried; the run saving most (the longest
-/// of equal ones) is replaced and the scan resumes after it. This makes every rewrite a template on four
-/// lines could make whose shorter side has at most that many gates.
-///
-/// Complexity: `O(G * WINDOW4_GATES)` table lookups of a few hundred
-/// nanoseconds each.
-pub fn resynthesize_windows4(circuit: &mut Circuit) -> bool {
-    if circuit.width() < 4 {
-        return false;
-    }
-    let gates = circuit.gates().to_vec();
-    let mut out: Vec<Gate> = Vec::with_capacity(gates.len());
-    let mut changed = false;
-    let mut i = 0;
-    while i < gates.len() {
-        // The four lines of the run starting at i: the first four met.
-        let mut set: Vec<Line> = Vec::with_capacity(5);
-        let mut end = i;
-        while end < gates.len() && end - i < WINDOW4_GATES {
-            let g = &gates[end];
-            let mut u = set.clone();
-            for l in g.controls().iter().map(|c| c.line).chain([g.target()]) {
-                if !u.contains(&l) {
-                    u.push(l);
-                }
-            }
-            if u.len() > 4 {
-                break;
-            }
-            set = u;
-            end += 1;
-        }
-        if set.len() < 4 || end - i < 3 {
-            out.push(gates[i].clone());
-            i += 1;
-            continue;
-        }
-        set.sort();
-        let local = |l: Line| Line(set.iter().position(|&x| x == l).expect("in the run") as u32);
-        let mut images: Vec<u64> = (0..16).collect();
-        let mut best: Option<((i64, i64), usize, Vec<Gate>)> = None;
-        let mut most_controls = 0;
-        for j in i..end {
-            let g = &gates[j];
-            most_controls = most_controls.max(g.controls().len());
-            let lg = g.renamed(local).expect("distinct lines");
-            images.iter_mut().for_each(|v| *v = lg.apply(*v));
-            if j - i < 2 {
-                continue;
-            }
-            let Some(found) = crate::synth::Exact4::for_windows().lookup(&images) else {
-                continue;
-            };
-            let (run, new) = (total_cost(&gates[i..=j]), total_cost(&found));
-            let saving = (run.0 as i64 - new.0 as i64, run.1 as i64 - new.1 as i64);
-            if new < run
-                && found.iter().all(|h| h.controls().len() <= most_controls)
-                && best.as_ref().is_none_or(|b| saving >= b.0)
-            {
-                best = Some((saving, j + 1, found));
-            }
-        }
-        match best {
-            Some((_, stop, found)) => {
-                out.extend(
-                    found
-                        .iter()
-                        .map(|g| g.renamed(|l| set[l.index()]).expect("distinct lines")),
-                );
-                changed = true;
-                i = stop;
-            }
-            None => {
-                out.push(gates[i].clone());
-                i += 1;
-            }
-        }
-    }
-    circuit.set_gates(out);
-    changed
 }
 
 /// All passes until none changes the circuit (at most 20 rounds), keeping the
@@ -321,6 +69,7 @@ pub fn optimize(circuit: &mut Circuit) {
 #[cfg(test)]
 mod tests {
     use super::*;
+    use crate::circuit::Line;
 
     use crate::circuit::test_lines as lines;
 

@@ -1,168 +1,231 @@
-//! Errors that point into a source file: file, line, column, and the line itself with a caret.
+//! The classes of mistake a spec can hold, as data: each variant carries what
+//! the message needs, and [`SpecError`] adds where it is.
 
+use crate::source::{ErrorKind, SourceError};
 use std::fmt;
-use std::ops::Range;
 
-/// A place in a source file; line and column count from 1, columns in characters.
-#[derive(Clone, Debug, PartialEq, Eq, serde::Serialize)]
-pub struct Location {
-    /// The file as the user named it.
-    pub file: String,
-    /// Line, from 1.
-    pub line: usize,
-    /// Column in characters, from 1.
-    pub column: usize,
+/// A spec error at its place in the file.
+pub type SpecError = SourceError<SpecErrorKind>;
+
+/// What is wrong with a spec.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub enum SpecErrorKind {
+    /// The TOML reader refused the text (syntax, or a value of the wrong type).
+    Toml(String),
+    /// `kind` is missing.
+    NoKind,
+    /// `kind` names no kind of spec.
+    UnknownKind(String),
+    /// A key that no spec has.
+    UnknownKey {
+        /// The key.
+        key: String,
+        /// The spec's kind.
+        kind: String,
+        /// The keys that kind takes.
+        keys: Vec<&'static str>,
+    },
+    /// A key of another kind of spec.
+    KeyNotForKind {
+        /// The key.
+        key: String,
+        /// The spec's kind.
+        kind: String,
+    },
+    /// A key the spec needs is missing.
+    Missing {
+        /// The key.
+        key: &'static str,
+        /// Who needs it: `a function spec`, `op 'lookup'`, ...
+        needed_by: String,
+    },
+    /// `[oracle] form` names no form.
+    UnknownForm(String),
+    /// A phase oracle asked of a spec that is not a one-output function.
+    PhaseNeedsOneOutput,
+    /// A list that must not be empty is.
+    Empty(&'static str),
+    /// A name that is not an identifier.
+    BadName(String),
+    /// A name used twice among inputs, outputs and definitions.
+    NameTwice(String),
+    /// A `[table]` or `[expr]` key that is not an output.
+    NotAnOutput {
+        /// The key.
+        name: String,
+        /// `table` or `expr`.
+        section: &'static str,
+        /// The outputs, listed.
+        outputs: String,
+    },
+    /// An output given in both sections.
+    OutputTwice {
+        /// The output.
+        name: String,
+        /// Where it was first given.
+        first: &'static str,
+        /// Where it was given again.
+        again: &'static str,
+    },
+    /// An output given in neither section.
+    OutputMissing(String),
+    /// A truth table for more inputs than tables take.
+    TableTooWide {
+        /// The spec's inputs.
+        inputs: usize,
+        /// The most a table takes.
+        limit: usize,
+    },
+    /// A malformed table string.
+    Table(String),
+    /// A malformed expression.
+    Expr(String),
+    /// A definition that depends on itself.
+    Cycle(String),
+    /// The expressions have more nodes than the cap.
+    TooManyNodes(usize),
+    /// A number that must not be negative is.
+    Negative(&'static str),
+    /// A number written as text that is not a whole number in range.
+    NotANumber(&'static str),
+    /// A number outside its range.
+    OutOfRange {
+        /// The key.
+        key: &'static str,
+        /// The rule it breaks, in words (`must be at least 1`).
+        rule: String,
+    },
+    /// A value that does not fit in its register.
+    DoesNotFit {
+        /// What (`constant 300`, `data word 9`).
+        what: String,
+        /// The register's bits.
+        bits: usize,
+    },
+    /// The width of a modular op cannot hold the modulus minus one.
+    WidthBelowModulus {
+        /// The width.
+        width: usize,
+        /// The modulus.
+        modulus: u64,
+    },
+    /// The images of a permutation are not a bijection of the right size.
+    Permutation(String),
+    /// `op` names no arithmetic op.
+    UnknownOp {
+        /// What was written.
+        op: String,
+        /// The ops.
+        ops: Vec<&'static str>,
+    },
+    /// A key that the op does not take.
+    KeyNotForOp {
+        /// The key.
+        key: &'static str,
+        /// The op.
+        op: &'static str,
+    },
+    /// A lookup table with too many address bits.
+    LookupTooWide(usize),
+    /// A lookup table whose data has the wrong number of words.
+    DataCount {
+        /// Address bits.
+        width: usize,
+        /// Words found.
+        found: usize,
+    },
 }
 
-/// An input file with its name, for turning byte offsets into locations.
-#[derive(Clone, Debug)]
-pub struct Source<'a> {
-    /// The file name as the user gave it.
-    pub path: &'a str,
-    /// The whole text.
-    pub text: &'a str,
-}
-
-impl Source<'_> {
-    /// The location of byte `offset` (clamped to the text).
-    pub fn locate(&self, offset: usize) -> Location {
-        let mut offset = offset.min(self.text.len());
-        while !self.text.is_char_boundary(offset) {
-            offset -= 1;
-        }
-        let before = &self.text[..offset];
-        let line = before.matches('\n').count() + 1;
-        let line_start = before.rfind('\n').map_or(0, |i| i + 1);
-        let column = self.text[line_start..offset].chars().count() + 1;
-        Location {
-            file: self.path.to_string(),
-            line,
-            column,
-        }
-    }
-
-    /// An error at byte `offset`.
-    pub fn error(&self, offset: usize, message: impl Into<String>) -> LocatedError {
-        let location = self.locate(offset);
-        let source_line = self
-            .text
-            .lines()
-            .nth(location.line - 1)
-            .unwrap_or("")
-            .to_string();
-        LocatedError {
-            location,
-            message: message.into(),
-            source_line,
-            hint: None,
-        }
-    }
-
-    /// Byte offset of position `inner` inside the string value whose literal
-    /// (quotes included) spans `span`; falls back to the literal's start when
-    /// escapes or line breaks make the mapping unsure.
-    pub fn offset_in_string(&self, span: &Range<usize>, value: &str, inner: usize) -> usize {
-        let raw = self.text.get(span.clone()).unwrap_or("");
-        for quote in ["\"", "'"] {
-            if raw.len() == value.len() + 2
-                && raw.starts_with(quote)
-                && raw.ends_with(quote)
-                && &raw[1..raw.len() - 1] == value
-            {
-                return span.start + 1 + inner.min(value.len());
-            }
-        }
-        span.start
-    }
-}
-
-/// An error with its place in a file, shown as `file:line:column: message` and the
-/// offending line with a caret under the column.
-#[derive(Clone, Debug, PartialEq, Eq, thiserror::Error)]
-pub struct LocatedError {
-    /// Where.
-    pub location: Location,
-    /// What is wrong.
-    pub message: String,
-    /// The text of the offending line.
-    pub source_line: String,
-    /// A suggestion, where one helps.
-    pub hint: Option<String>,
-}
-
-impl LocatedError {
-    /// Adds a hint line.
-    pub fn with_hint(mut self, hint: impl Into<String>) -> Self {
-        self.hint = Some(hint.into());
-        self
-    }
-}
-
-impl fmt::Display for LocatedError {
+impl fmt::Display for SpecErrorKind {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
-        let l = &self.location;
-        writeln!(f, "{}:{}:{}: {}", l.file, l.line, l.column, self.message)?;
-        let gutter = l.line.to_string();
-        let pad = " ".repeat(gutter.len());
-        writeln!(f, "{pad} |")?;
-        writeln!(f, "{gutter} | {}", self.source_line)?;
-        let caret_pad: String = self
-            .source_line
-            .chars()
-            .take(l.column.saturating_sub(1))
-            .map(|c| if c == '\t' { '\t' } else { ' ' })
-            .collect();
-        write!(f, "{pad} | {caret_pad}^")?;
-        if let Some(h) = &self.hint {
-            write!(f, "\n{pad} = hint: {h}")?;
+        use SpecErrorKind::*;
+        match self {
+            Toml(m) => f.write_str(m),
+            NoKind => f.write_str("a spec needs 'kind'"),
+            UnknownKind(k) => write!(f, "unknown kind '{k}'"),
+            UnknownKey { key, kind, .. } => {
+                write!(f, "unknown key '{key}' in a spec of kind '{kind}'")
+            }
+            KeyNotForKind { key, kind } => {
+                write!(f, "'{key}' does not belong in a spec of kind '{kind}'")
+            }
+            Missing { key, needed_by } => match *key {
+                "inputs" | "outputs" => write!(f, "{needed_by} needs an '{key}' list"),
+                _ => write!(f, "{needed_by} needs '{key}'"),
+            },
+            UnknownForm(x) => write!(f, "unknown oracle form '{x}'"),
+            PhaseNeedsOneOutput => {
+                f.write_str("a phase oracle is a function spec with exactly one output")
+            }
+            Empty(key) => write!(f, "'{key}' is empty"),
+            BadName(n) => write!(f, "'{n}' is not a usable name"),
+            NameTwice(n) => write!(f, "the name '{n}' is used twice"),
+            NotAnOutput {
+                name,
+                section,
+                outputs,
+            } => write!(
+                f,
+                "'{name}' in [{section}] is not an output; the outputs are {outputs}"
+            ),
+            OutputTwice { name, first, again } => write!(
+                f,
+                "output '{name}' is given twice: in [{first}] and in [{again}]"
+            ),
+            OutputMissing(n) => write!(f, "output '{n}' is given neither in [table] nor in [expr]"),
+            TableTooWide { inputs, limit } => write!(
+                f,
+                "a truth table takes at most {limit} inputs; use [expr] for {inputs} inputs"
+            ),
+            Table(m) | Expr(m) | Permutation(m) => f.write_str(m),
+            Cycle(n) => write!(f, "definition '{n}' depends on itself"),
+            TooManyNodes(cap) => write!(
+                f,
+                "the expressions and their definitions have more than {} nodes",
+                crate::logic::fmt_count(*cap)
+            ),
+            Negative(key) => write!(f, "'{key}' must be 0 or more"),
+            NotANumber(key) => write!(
+                f,
+                "'{key}' must be a whole number from 0 to 2^64 - 1 (decimal, 0x hex or 0b binary)"
+            ),
+            OutOfRange { key, rule } => write!(f, "'{key}' {rule}"),
+            DoesNotFit { what, bits } => write!(f, "{what} does not fit in {bits} bits"),
+            WidthBelowModulus { width, modulus } => write!(
+                f,
+                "width {width} cannot hold {} (modulus {modulus} minus 1)",
+                modulus - 1
+            ),
+            UnknownOp { op, .. } => write!(f, "unknown op '{op}'"),
+            KeyNotForOp { key, op } => write!(f, "'{key}' does not apply to op '{op}'"),
+            LookupTooWide(limit) => {
+                write!(f, "a lookup table takes at most {limit} address bits")
+            }
+            DataCount { width, found } => write!(
+                f,
+                "{width} address bits need {} data words, found {found}",
+                1usize << width
+            ),
         }
-        Ok(())
     }
 }
 
-#[cfg(test)]
-mod tests {
-    use super::*;
-
-    #[test]
-    fn locate_counts_lines_and_characters() {
-        let src = Source {
-            path: "f.toml",
-            text: "a = 1\nbé = \"x & y\"\n",
-        };
-        let l = src.locate(6);
-        assert_eq!((l.line, l.column), (2, 1));
-        // 'é' is two bytes but one column.
-        let at = src
-            .text
-            .find('=')
-            .map(|_| src.text.rfind('=').unwrap())
-            .unwrap();
-        assert_eq!(src.locate(at).column, 4);
-        let e = src.error(at, "here");
-        let shown = e.to_string();
-        assert!(shown.starts_with("f.toml:2:4: here"), "{shown}");
-        assert!(shown.contains("2 | bé = \"x & y\""), "{shown}");
-        assert!(shown.ends_with("  |    ^"), "{shown:?}");
-    }
-
-    #[test]
-    fn offsets_inside_plain_strings() {
-        let text = "fan = \"hot & cold\"";
-        let src = Source { path: "s", text };
-        let start = text.find('"').unwrap();
-        let span = start..text.len();
-        assert_eq!(src.offset_in_string(&span, "hot & cold", 6), start + 7);
-        // With an escape the mapping is unsure: point at the literal.
-        let text2 = "fan = \"hot \\u0026 cold\"";
-        let src2 = Source {
-            path: "s",
-            text: text2,
-        };
-        let start2 = text2.find('"').unwrap();
-        assert_eq!(
-            src2.offset_in_string(&(start2..text2.len()), "hot & cold", 6),
-            start2
-        );
+impl ErrorKind for SpecErrorKind {
+    fn hint(&self) -> Option<String> {
+        use SpecErrorKind::*;
+        match self {
+            UnknownKind(_) | NoKind => {
+                Some("kind is one of function, permutation, arithmetic".into())
+            }
+            UnknownKey { kind, keys, .. } => {
+                Some(format!("a {kind} spec takes {}", keys.join(", ")))
+            }
+            UnknownForm(_) => Some("form is xor or phase".into()),
+            BadName(_) => {
+                Some("names start with a letter or '_' and hold letters, digits and '_'".into())
+            }
+            UnknownOp { ops, .. } => Some(format!("op is one of {}", ops.join(", "))),
+            _ => None,
+        }
     }
 }

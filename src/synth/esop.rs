@@ -22,10 +22,9 @@
 //! search, and exorlink work bounded by the effort setting. Terms past 2,000
 //! skip the pairwise exorlink phase (only identical cubes are shared).
 
-use super::{function_lines, reed_muller_coefficients, SynthError, SynthLimits};
-use crate::circuit::{Circuit, Control, Gate, Line, LineInfo, Role};
+use super::{reed_muller_coefficients, SynthError, SynthLimits};
+use crate::circuit::{Circuit, Control, Gate, Line};
 use crate::logic::{third, Cube, Esop, Literal, TruthTable, VAR_PATTERN};
-use crate::lower::ANCILLA_REGISTER;
 use crate::spec::FunctionSpec;
 use std::collections::HashMap;
 
@@ -462,7 +461,7 @@ fn toffolis(k: usize) -> usize {
 /// through an ancilla), ordered so that neighbours share control prefixes.
 pub fn esop_circuit(f: &FunctionSpec, e: &Esop) -> Circuit {
     let n = f.inputs.len();
-    let mut c = Circuit::new(function_lines(f));
+    let mut c = Circuit::new(f.layout().lines());
     let mut terms: Vec<(Vec<Control>, u64)> = e
         .terms
         .iter()
@@ -494,15 +493,7 @@ pub fn esop_circuit(f: &FunctionSpec, e: &Esop) -> Circuit {
         let via_ancilla = if k >= 3 { 2 * k - 2 } else { 2 };
         let direct = if k >= 2 { toffolis(k) + (m - 1) } else { 0 };
         if k >= 2 && m >= 2 && via_ancilla < direct {
-            let a = *copy_line.get_or_insert_with(|| {
-                let index = c.register(ANCILLA_REGISTER).len() as u32;
-                c.add_line(LineInfo {
-                    register: ANCILLA_REGISTER.into(),
-                    index,
-                    role: Role::Ancilla,
-                    label: format!("anc{index}"),
-                })
-            });
+            let a = *copy_line.get_or_insert_with(|| c.add_ancilla());
             let g = Gate::new(controls, a).expect("inputs control an ancilla");
             c.push(g.clone());
             for t in targets {

@@ -15,9 +15,12 @@
 //! time budget stops the descent and reports the best ESOP with its proven
 //! lower bound.
 
-use super::esop::minimize_tables;
+use super::esop::{esop_circuit, minimize_tables};
+use super::{SynthError, SynthLimits, Synthesis};
+use crate::exact::Tables;
+use crate::limit::{Limit, Stop};
 use crate::logic::{Cube, Esop, TruthTable};
-use std::sync::OnceLock;
+use crate::spec::FunctionSpec;
 use std::time::{Duration, Instant};
 
 /// Most inputs `esop-exact` takes.
@@ -40,104 +43,49 @@ impl ExactEsop {
     }
 }
 
-/// Breadth-first tables of minimum ESOP sizes, for 1 to 4 inputs.
-pub struct EsopTable {
-    vars: usize,
-    cubes: Vec<Cube>,
-    /// Minimum cube count per function.
-    dist: Vec<u8>,
-    /// A cube whose removal leaves a function one cube smaller.
-    via: Vec<u8>,
-}
-
-impl EsopTable {
-    fn build(vars: usize) -> Self {
-        let size = 1usize << (1 << vars);
-        let mut cubes = Vec::new();
-        for code in 0..3u32.pow(vars as u32) {
-            let (mut care, mut pol, mut c) = (0u32, 0u32, code);
-            for i in 0..vars {
-                match c % 3 {
-                    1 => {
-                        care |= 1 << i;
-                        pol |= 1 << i;
-                    }
-                    2 => care |= 1 << i,
-                    _ => {}
-                }
-                c /= 3;
-            }
-            cubes.push(Cube::new(care, pol));
-        }
-        let masks: Vec<usize> = cubes
-            .iter()
-            .map(|c| (0..1u64 << vars).fold(0usize, |m, x| m | (c.contains(x) as usize) << x))
-            .collect();
-        let mut dist = vec![u8::MAX; size];
-        let mut via = vec![0u8; size];
-        dist[0] = 0;
-        let mut frontier = vec![0usize];
-        let mut d = 0u8;
-        while !frontier.is_empty() {
-            let mut next = Vec::new();
-            for &f in &frontier {
-                for (k, &m) in masks.iter().enumerate() {
-                    let g = f ^ m;
-                    if dist[g] == u8::MAX {
-                        dist[g] = d + 1;
-                        via[g] = k as u8;
-                        next.push(g);
-                    }
-                }
-            }
-            frontier = next;
-            d += 1;
-        }
-        EsopTable {
-            vars,
-            cubes,
-            dist,
-            via,
-        }
+/// The `esop-exact` method: a minimum ESOP (or the best within the search
+/// budget, with its proven bound), one gate per cube and output.
+pub(super) fn esop_exact_circuit(
+    f: &FunctionSpec,
+    limits: &SynthLimits,
+) -> Result<Synthesis, SynthError> {
+    let n = f.inputs.len();
+    if n > EXACT_ESOP_MAX_INPUTS {
+        return Err(SynthError::NotApplicable {
+            method: "esop-exact",
+            kind: "function",
+            hint: "it takes at most 5 inputs; use esop",
+        });
     }
-
-    /// The table for `vars` inputs (1 to 4), built once.
-    pub fn get(vars: usize) -> &'static EsopTable {
-        static TABLES: [OnceLock<EsopTable>; 4] = [
-            OnceLock::new(),
-            OnceLock::new(),
-            OnceLock::new(),
-            OnceLock::new(),
-        ];
-        assert!((1..=4).contains(&vars), "tables exist for 1 to 4 inputs");
-        TABLES[vars - 1].get_or_init(|| EsopTable::build(vars))
-    }
-
-    /// Minimum cube count of the function whose truth table is `f`.
-    pub fn size(&self, f: usize) -> usize {
-        self.dist[f] as usize
-    }
-
-    /// The number of functions needing each cube count.
-    pub fn distribution(&self) -> Vec<usize> {
-        let max = *self.dist.iter().max().unwrap_or(&0) as usize;
-        let mut v = vec![0; max + 1];
-        for &d in &self.dist {
-            v[d as usize] += 1;
-        }
-        v
-    }
-
-    /// One minimum ESOP of `f`.
-    pub fn esop(&self, mut f: usize) -> Vec<Cube> {
-        let mut out = Vec::new();
-        while f != 0 {
-            let c = self.cubes[self.via[f] as usize];
-            out.push(c);
-            f ^= (0..1u64 << self.vars).fold(0usize, |m, x| m | (c.contains(x) as usize) << x);
-        }
-        out
-    }
+    let tables: Vec<_> = (0..f.outputs.len())
+        .map(|j| f.table(j).expect("at most 5 inputs"))
+        .collect();
+    let budget = Duration::from_secs_f64(limits.exact_seconds.max(0.0));
+    let r = exact_esop(&tables, budget);
+    let (note, stop) = if r.is_minimal() {
+        (
+            format!("esop-exact: {} cubes, proven minimal", r.esop.cubes()),
+            None,
+        )
+    } else {
+        (
+            format!(
+                "esop-exact: {} cubes, NOT proven minimal: the search stopped at the time budget with a proven lower bound of {} cubes",
+                r.esop.cubes(),
+                r.lower_bound
+            ),
+            Some(Stop {
+                limit: Some(Limit::SearchSeconds),
+                bound: r.lower_bound,
+                unit: "cubes",
+            }),
+        )
+    };
+    Ok(Synthesis {
+        circuit: esop_circuit(f, &r.esop),
+        notes: vec![note],
+        stop,
+    })
 }
 
 /// The exact minimum ESOP of `tables` (all over the same at most 5 inputs),
@@ -146,7 +94,7 @@ pub fn exact_esop(tables: &[TruthTable], budget: Duration) -> ExactEsop {
     let n = tables[0].vars();
     assert!(n <= EXACT_ESOP_MAX_INPUTS, "checked by the caller");
     if tables.len() == 1 && (1..=4).contains(&n) {
-        let t = EsopTable::get(n);
+        let t = Tables::get().esop(n);
         let f = tables[0].words()[0] as usize;
         let cubes = t.esop(f);
         let k = cubes.len();
@@ -166,7 +114,7 @@ pub fn exact_esop(tables: &[TruthTable], budget: Duration) -> ExactEsop {
         .iter()
         .map(|t| {
             if (1..=4).contains(&n) {
-                EsopTable::get(n).size(t.words()[0] as usize)
+                Tables::get().esop(n).size(t.words()[0] as usize)
             } else {
                 (t.count_ones() > 0) as usize
             }
@@ -299,15 +247,15 @@ mod tests {
     // inputs (checks.md, computed by breadth-first search; average 3.6553).
     #[test]
     fn four_input_distribution() {
-        let t = EsopTable::get(4);
+        let t = Tables::get().esop(4);
         assert_eq!(t.distribution(), vec![1, 81, 2268, 21744, 37530, 3888, 24]);
-        let total: usize = t.dist.iter().map(|&d| d as usize).sum();
+        let total: usize = (0..65536).map(|f| t.size(f)).sum();
         assert!((total as f64 / 65536.0 - 3.6553).abs() < 5e-5);
     }
 
     #[test]
     fn table_esops_are_correct() {
-        let t = EsopTable::get(4);
+        let t = Tables::get().esop(4);
         for f in (0..65536usize).step_by(97) {
             let cubes = t.esop(f);
             assert_eq!(cubes.len(), t.size(f));
@@ -322,9 +270,9 @@ mod tests {
     // (checks.md).
     #[test]
     fn named_functions() {
-        assert_eq!(EsopTable::get(4).size(0x6996), 4);
-        assert_eq!(EsopTable::get(3).size(0xe8), 3);
-        assert_eq!(EsopTable::get(4).size(0xf888), 3);
+        assert_eq!(Tables::get().esop(4).size(0x6996), 4);
+        assert_eq!(Tables::get().esop(3).size(0xe8), 3);
+        assert_eq!(Tables::get().esop(4).size(0xf888), 3);
     }
 
     #[test]
@@ -335,7 +283,11 @@ mod tests {
             let t = TruthTable::from_words(4, &[f]);
             let r = exact_esop(&[t.clone(), t.clone()], Duration::from_secs(20));
             assert!(r.is_minimal());
-            assert_eq!(r.esop.cubes(), EsopTable::get(4).size(f as usize), "{f:#x}");
+            assert_eq!(
+                r.esop.cubes(),
+                Tables::get().esop(4).size(f as usize),
+                "{f:#x}"
+            );
             assert_eq!(r.esop.table(0), t);
             assert_eq!(r.esop.table(1), t);
         }

@@ -1,162 +1,140 @@
-//! Exact synthesis on three lines: the optimal circuit of NOT, CNOT and Toffoli
-//! gates for every one of the 40,320 reversible functions of 3 bits.
+//! The `exact` method: a minimum circuit for a permutation of at most 4 lines,
+//! or a function through its xor embedding, from the exact tables.
 //!
-//! A breadth-first search from the identity over the 12 gates of the library
-//! (3 NOT, 6 CNOT, 3 Toffoli) visits every function at its minimum gate count
-//! and records the last gate of one minimum circuit (the approach of Shende,
-//! Prasad, Markov, Hayes, IEEE TCAD 22(6), 2003). The table is built once on
-//! first use (about 0.5 million steps) and a query walks back at most 8 gates.
+//! Three lines and fewer: a lookup in the breadth-first table of Shende,
+//! Prasad, Markov and Hayes (2003). Four lines: the symmetry-reduced table and
+//! meet in the middle of Golubitsky and Maslov (2012), within the search
+//! budget; a search that stops early gives transform-bidir's circuit,
+//! optimized, with the lower bound proven so far.
 
-use crate::circuit::{Control, Gate, Line};
-use std::collections::HashMap;
-use std::sync::OnceLock;
+use super::{transform_with, xor_embedding, SynthError, SynthLimits, Synthesis};
+use crate::circuit::{Circuit, LineInfo};
+use crate::exact::Tables;
+use crate::limit::{Limit, Stop};
+use crate::logic::Permutation;
+use crate::progress::{Event, Progress};
+use crate::spec::{permutation_layout, FunctionSpec};
 
-/// The NOT, CNOT and Toffoli gates on `w` lines (12 for `w = 3`).
-pub fn library(w: u32) -> Vec<Gate> {
-    let mut v = Vec::new();
-    for t in 0..w {
-        v.push(Gate::not(t));
-    }
-    for t in 0..w {
-        for c in 0..w {
-            if c != t {
-                v.push(Gate::cnot(c, t));
-            }
-        }
-    }
-    if w == 3 {
-        for t in 0..3u32 {
-            let cs: Vec<Control> = (0..3u32).filter(|&c| c != t).map(Control::pos).collect();
-            v.push(Gate::new(cs, Line(t)).expect("two controls and a target"));
-        }
-    }
-    v
+/// The minimum circuit of a permutation of at most 4 lines.
+pub(super) fn permutation(
+    p: &Permutation,
+    limits: &SynthLimits,
+    progress: &dyn Progress,
+) -> Result<Synthesis, SynthError> {
+    circuit(
+        p.images(),
+        p.width(),
+        permutation_layout(p.width()).lines(),
+        limits,
+        progress,
+    )
 }
 
-/// A 3-bit permutation packed as eight 3-bit images.
-fn pack(images: &[u64]) -> u32 {
-    images
-        .iter()
-        .enumerate()
-        .fold(0u32, |a, (i, &v)| a | (v as u32) << (3 * i))
+/// The minimum circuit of a function's xor embedding of at most 4 lines.
+pub(super) fn function(
+    f: &FunctionSpec,
+    limits: &SynthLimits,
+    progress: &dyn Progress,
+) -> Result<Synthesis, SynthError> {
+    let (n, m) = (f.inputs.len(), f.outputs.len());
+    if n + m > 4 {
+        return Err(refused());
+    }
+    circuit(
+        &xor_embedding(f),
+        n + m,
+        f.layout().lines(),
+        limits,
+        progress,
+    )
 }
 
-fn image(p: u32, i: u64) -> u64 {
-    ((p >> (3 * i)) & 7) as u64
-}
-
-/// The table: minimum size and last gate of every function of `width` bits.
-pub struct Exact3 {
-    width: u32,
-    gates: Vec<Gate>,
-    entry: HashMap<u32, (u8, u8)>,
-}
-
-impl Exact3 {
-    fn build(width: u32) -> Self {
-        let gates = library(width);
-        let size = 1u64 << width;
-        let identity = pack(&(0..size).collect::<Vec<_>>());
-        let mut entry = HashMap::with_capacity(40320);
-        entry.insert(identity, (0u8, u8::MAX));
-        let mut frontier = vec![identity];
-        let mut d = 0u8;
-        while !frontier.is_empty() {
-            let mut next = Vec::new();
-            for &p in &frontier {
-                for (k, g) in gates.iter().enumerate() {
-                    let images: Vec<u64> = (0..size).map(|i| g.apply(image(p, i))).collect();
-                    let q = pack(&images);
-                    if let std::collections::hash_map::Entry::Vacant(e) = entry.entry(q) {
-                        e.insert((d + 1, k as u8));
-                        next.push(q);
-                    }
-                }
-            }
-            frontier = next;
-            d += 1;
-        }
-        Exact3 {
-            width,
-            gates,
-            entry,
-        }
-    }
-
-    /// The 3-line table, built on first use.
-    pub fn get() -> &'static Exact3 {
-        Exact3::for_width(3)
-    }
-
-    /// The table for 1, 2 or 3 lines, built on first use.
-    pub fn for_width(width: usize) -> &'static Exact3 {
-        static TABLES: [OnceLock<Exact3>; 3] = [OnceLock::new(), OnceLock::new(), OnceLock::new()];
-        assert!((1..=3).contains(&width), "exact tables cover 1 to 3 lines");
-        TABLES[width - 1].get_or_init(|| Exact3::build(width as u32))
-    }
-
-    /// Number of functions needing each gate count.
-    pub fn distribution(&self) -> Vec<usize> {
-        let max = self.entry.values().map(|e| e.0).max().unwrap_or(0) as usize;
-        let mut v = vec![0; max + 1];
-        for e in self.entry.values() {
-            v[e.0 as usize] += 1;
-        }
-        v
-    }
-
-    /// An optimal circuit for `images` (`2^width` entries), gates in the order they apply.
-    pub fn circuit(&self, images: &[u64]) -> Vec<Gate> {
-        let size = 1u64 << self.width;
-        let mut p = pack(images);
-        let mut out = Vec::new();
-        while let Some(&(d, k)) = self.entry.get(&p) {
-            if d == 0 {
-                break;
-            }
-            let g = &self.gates[k as usize];
-            out.push(g.clone());
-            // Undo the last gate: apply it again to the images.
-            let prev: Vec<u64> = (0..size).map(|i| g.apply(image(p, i))).collect();
-            p = pack(&prev);
-        }
-        out.reverse();
-        out
-    }
-
-    /// The minimum gate count of `images`.
-    pub fn size(&self, images: &[u64]) -> usize {
-        self.entry.get(&pack(images)).map_or(0, |e| e.0 as usize)
+fn refused() -> SynthError {
+    SynthError::NotApplicable {
+        method: "exact",
+        kind: "more than 4 lines",
+        hint: "exact covers at most 4 lines; use transform-bidir",
     }
 }
 
-#[cfg(test)]
-mod tests {
-    use super::*;
-
-    // Shende, Prasad, Markov, Hayes, IEEE TCAD 22(6), 2003 (checks.md): the
-    // number of 3-bit functions with minimum size k, average 5.8655, maximum 8.
-    #[test]
-    fn distribution_of_all_40320_functions() {
-        let t = Exact3::get();
-        let d = t.distribution();
-        assert_eq!(d, vec![1, 12, 102, 625, 2780, 8921, 17049, 10253, 577]);
-        let total: usize = d.iter().enumerate().map(|(k, n)| k * n).sum();
-        assert_eq!(total, 236_497);
+/// The optimal circuit of a function of at most 4 lines, placed on `lines`.
+fn circuit(
+    images: &[u64],
+    width: usize,
+    lines: Vec<LineInfo>,
+    limits: &SynthLimits,
+    progress: &dyn Progress,
+) -> Result<Synthesis, SynthError> {
+    if width > 4 {
+        return Err(refused());
     }
-
-    // hwb3 needs 7 gates, the Miller-Maslov-Dueck example 6 (checks.md, computed).
-    #[test]
-    fn named_functions() {
-        let t = Exact3::get();
-        assert_eq!(t.size(&[0, 2, 4, 5, 1, 6, 3, 7]), 7);
-        assert_eq!(t.size(&[7, 0, 1, 3, 4, 2, 6, 5]), 6);
-        for images in [[0u64, 2, 4, 5, 1, 6, 3, 7], [7, 0, 1, 3, 4, 2, 6, 5]] {
-            let c = t.circuit(&images);
-            for (i, &want) in images.iter().enumerate() {
-                let got = c.iter().fold(i as u64, |s, g| g.apply(s));
-                assert_eq!(got, want);
-            }
+    let tables = Tables::get();
+    if width < 4 {
+        let gates = tables.exact3(width).circuit(images);
+        let mut c = Circuit::new(lines);
+        for g in gates {
+            c.push(g);
         }
+        return Ok(Synthesis {
+            notes: vec![format!(
+                "exact: {} gates, minimum over NOT, CNOT and Toffoli",
+                c.gates().len()
+            )],
+            circuit: c,
+            stop: None,
+        });
     }
+    let (table, how) = tables.four(&|p| progress.event(Event::TableBuild(p)));
+    let mut notes: Vec<String> = how.into_iter().collect();
+    let budget = std::time::Duration::from_secs_f64(limits.exact_seconds.max(0.0));
+    let r = table.solve_with(images, budget, &|gates, fraction| {
+        progress.event(Event::Search { gates, fraction })
+    });
+    progress.event(Event::SearchDone);
+    let mut c = Circuit::new(lines);
+    if r.minimal {
+        for g in r.gates {
+            c.push(g);
+        }
+        notes.push(format!(
+            "exact: {} gates, proven minimal over the 32-gate library",
+            c.gates().len()
+        ));
+        return Ok(Synthesis {
+            circuit: c,
+            notes,
+            stop: None,
+        });
+    }
+    let p = Permutation::new(4, images.to_vec()).expect("a permutation");
+    let mut h = transform_with(&p, true);
+    crate::opt::optimize(&mut h);
+    for g in h.gates() {
+        c.push(g.clone());
+    }
+    let past_reach = r.lower_bound > table.reach();
+    let why = if past_reach {
+        format!(
+            "the table of depth {} proves minima of at most {} gates",
+            table.depth(),
+            table.reach()
+        )
+    } else {
+        "the search stopped at its time budget".to_string()
+    };
+    notes.push(format!(
+        "exact: NOT proven minimal: no circuit of fewer than {} gates exists, and {why}; this {}-gate circuit from transform-bidir is at most {} gates above the minimum",
+        r.lower_bound,
+        c.gates().len(),
+        c.gates().len().saturating_sub(r.lower_bound)
+    ));
+    Ok(Synthesis {
+        circuit: c,
+        notes,
+        stop: Some(Stop {
+            limit: (!past_reach).then_some(Limit::SearchSeconds),
+            bound: r.lower_bound,
+            unit: "gates",
+        }),
+    })
 }

@@ -14,7 +14,7 @@
 //! fit ([`SynthLimits::max_table_inputs`]), and the gate count is at most `2^n` per
 //! output, checked against [`SynthLimits::max_gates`].
 
-use super::{function_lines, SynthError, SynthLimits};
+use super::{SynthError, SynthLimits};
 use crate::circuit::{Circuit, Control, Gate, Line};
 use crate::logic::{TruthTable, VAR_PATTERN};
 use crate::spec::FunctionSpec;
@@ -66,7 +66,7 @@ fn monomials_in_order(coeffs: &TruthTable, mut emit: impl FnMut(u64)) {
 pub fn reed_muller(f: &FunctionSpec, limits: &SynthLimits) -> Result<Circuit, SynthError> {
     let n = f.inputs.len();
     super::check_table_inputs(n, limits)?;
-    let mut circuit = Circuit::new(function_lines(f));
+    let mut circuit = Circuit::new(f.layout().lines());
     let mut gates = 0usize;
     for j in 0..f.outputs.len() {
         let table = f

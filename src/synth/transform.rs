@@ -17,9 +17,10 @@
 //! Complexity: at most `n` gates per row, `O(n 2^n)` gates. No ancilla; the
 //! widest gate has `n - 1` controls. Limit: [`TRANSFORM_MAX_LINES`] lines.
 
-use super::{function_lines, permutation_lines, SynthError};
+use super::SynthError;
 use crate::circuit::{Circuit, Control, Gate, Line};
 use crate::logic::Permutation;
+use crate::spec::permutation_layout;
 use crate::spec::FunctionSpec;
 
 /// Most lines the transformation-based methods take.
@@ -112,7 +113,7 @@ pub fn transform(p: &Permutation) -> Circuit {
 /// cheaper side per row.
 pub fn transform_with(p: &Permutation, bidirectional: bool) -> Circuit {
     let n = p.width();
-    let mut c = Circuit::new(permutation_lines(n));
+    let mut c = Circuit::new(permutation_layout(n).lines());
     for g in synthesize_images(p.images().to_vec(), n, bidirectional) {
         c.push(g);
     }
@@ -154,7 +155,7 @@ pub fn transform_function(f: &FunctionSpec, bidirectional: bool) -> Result<Circu
             hint: "it takes at most 16 inputs and outputs together; use esop or bennett",
         });
     }
-    let mut c = Circuit::new(function_lines(f));
+    let mut c = Circuit::new(f.layout().lines());
     for g in synthesize_images(xor_embedding(f), n + m, bidirectional) {
         c.push(g);
     }

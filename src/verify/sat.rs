@@ -11,9 +11,11 @@
 //! state; a model is a counterexample, which is then confirmed by simulating
 //! the circuit alone.
 
-use super::{bind, Binding, Counterexample, RegisterValue};
+use super::bind::{bind, Binding};
+use super::eval::Compiled;
+use super::{Counterexample, RegisterValue};
 use crate::circuit::Circuit;
-use crate::logic::Expr;
+use crate::logic::{Dag, NodeId, Term};
 use crate::spec::{ArithOp, ArithSpec, OutputDef, Spec, SpecBody};
 use std::collections::HashMap;
 use std::time::Duration;
@@ -219,7 +221,7 @@ impl Cnf {
     }
     /// A truth table over `inputs` (bit `i` of `words` is the value on input pattern
     /// `i`) as a multiplexer tree on the top input, identical halves shared.
-    fn table(
+    fn truth_table(
         &mut self,
         words: &[u64],
         vars: usize,
@@ -242,37 +244,56 @@ impl Cnf {
             (words[..h].to_vec(), words[h..].to_vec())
         };
         let l = if lo == hi {
-            self.table(&lo, vars - 1, inputs, memo)
+            self.truth_table(&lo, vars - 1, inputs, memo)
         } else {
-            let a = self.table(&hi, vars - 1, inputs, memo);
-            let b = self.table(&lo, vars - 1, inputs, memo);
+            let a = self.truth_table(&hi, vars - 1, inputs, memo);
+            let b = self.truth_table(&lo, vars - 1, inputs, memo);
             self.mux(inputs[vars - 1], a, b)
         };
         memo.insert(key, l);
         l
     }
-    fn expr(&mut self, e: &Expr, x: &[i32]) -> i32 {
-        match e {
-            Expr::Const(b) => self.constant(*b),
-            Expr::Var(j) => x[*j],
-            Expr::Not(a) => -self.expr(a, x),
-            Expr::And(v) => {
-                let l: Vec<i32> = v.iter().map(|a| self.expr(a, x)).collect();
-                self.and(&l)
-            }
-            Expr::Or(v) => {
-                let l: Vec<i32> = v.iter().map(|a| self.expr(a, x)).collect();
-                self.or(&l)
-            }
-            Expr::Xor(v) => {
-                let mut acc = -self.truth;
-                for a in v {
-                    let l = self.expr(a, x);
-                    acc = self.xor(acc, l);
+    /// The literal of every node of `dag` that `roots` need, in order
+    /// (the graph is topological, so one pass suffices); `x` holds the inputs.
+    fn dag(&mut self, dag: &Dag, roots: &[NodeId], x: &[i32]) -> Vec<i32> {
+        let mut wanted = vec![false; dag.len()];
+        for &r in roots {
+            wanted[r as usize] = true;
+        }
+        for v in (0..dag.len()).rev() {
+            if wanted[v] {
+                let t = dag.term(v as NodeId);
+                if let Term::Not(a) = t {
+                    wanted[a as usize] = true;
                 }
-                acc
+                for &a in dag.operands(&t) {
+                    wanted[a as usize] = true;
+                }
             }
         }
+        let mut lit = vec![0i32; dag.len()];
+        for v in 0..dag.len() {
+            if !wanted[v] {
+                continue;
+            }
+            let t = dag.term(v as NodeId);
+            let ops: Vec<i32> = dag.operands(&t).iter().map(|&a| lit[a as usize]).collect();
+            lit[v] = match t {
+                Term::Const(b) => self.constant(b),
+                Term::Var(j) => x[j as usize],
+                Term::Not(a) => -lit[a as usize],
+                Term::And(_) => self.and(&ops),
+                Term::Or(_) => self.or(&ops),
+                Term::Xor(_) => {
+                    let mut acc = -self.truth;
+                    for l in ops {
+                        acc = self.xor(acc, l);
+                    }
+                    acc
+                }
+            };
+        }
+        roots.iter().map(|&r| lit[r as usize]).collect()
     }
 }
 
@@ -285,16 +306,25 @@ fn expected(cnf: &mut Cnf, spec: &Spec, free: &[i32]) -> Result<(Vec<i32>, Vec<i
             let n = f.inputs.len();
             let x = &free[..n];
             let mut out = x.to_vec();
+            let roots: Vec<NodeId> = f
+                .outputs
+                .iter()
+                .filter_map(|o| match o.def {
+                    OutputDef::Expr(r) => Some(r),
+                    OutputDef::Table(_) => None,
+                })
+                .collect();
+            let mut exprs = cnf.dag(&f.dag, &roots, x).into_iter();
             for (k, o) in f.outputs.iter().enumerate() {
                 let v = match &o.def {
-                    OutputDef::Expr(e) => cnf.expr(e, x),
+                    OutputDef::Expr(_) => exprs.next().expect("one literal per expression output"),
                     OutputDef::Table(t) => {
                         if n > SAT_MAX_TABLE_INPUTS {
                             return Err(SatError::Unsupported(format!(
                                 "a truth table of {n} inputs is too large to encode for SAT (at most {SAT_MAX_TABLE_INPUTS})"
                             )));
                         }
-                        cnf.table(t.words(), n, x, &mut HashMap::new())
+                        cnf.truth_table(t.words(), n, x, &mut HashMap::new())
                     }
                 };
                 let y = free[n + k];
@@ -312,8 +342,8 @@ fn expected(cnf: &mut Cnf, spec: &Spec, free: &[i32]) -> Result<(Vec<i32>, Vec<i
             let mut memo = HashMap::new();
             (0..w)
                 .map(|j| {
-                    let bit = crate::logic::TruthTable::from_fn(w, |i| (p.apply(i) >> j) & 1 == 1);
-                    cnf.table(bit.words(), w, free, &mut memo)
+                    let bit = words_of(w, |i| (p.apply(i) >> j) & 1 == 1);
+                    cnf.truth_table(&bit, w, free, &mut memo)
                 })
                 .collect()
         }
@@ -419,9 +449,8 @@ fn arithmetic(
             }
             let mut memo = HashMap::new();
             for j in 0..s.data_width {
-                let bit =
-                    crate::logic::TruthTable::from_fn(w, |v| (s.data[v as usize] >> j) & 1 == 1);
-                let v = cnf.table(bit.words(), w, &a, &mut memo);
+                let bit = words_of(w, |v| (s.data[v as usize] >> j) & 1 == 1);
+                let v = cnf.truth_table(&bit, w, &a, &mut memo);
                 regs[w + j] = cnf.xor(rest[j], v);
             }
         }
@@ -442,7 +471,7 @@ pub fn sat_equivalence(
     budget: Duration,
 ) -> Result<SatOutcome, SatError> {
     let binding: Binding =
-        bind(circuit, &super::layout_of(spec)).map_err(|e| SatError::Binding(e.to_string()))?;
+        bind(circuit, &spec.layout().sizes()).map_err(|e| SatError::Binding(e.to_string()))?;
     let mut cnf = Cnf::new(budget);
     let free: Vec<i32> = binding.free.iter().map(|_| cnf.var()).collect();
     let (want, domain) = expected(&mut cnf, spec, &free)?;
@@ -571,18 +600,41 @@ fn const_bits(k: u64, w: usize) -> Vec<bool> {
     (0..w).map(|i| i < 64 && (k >> i) & 1 == 1).collect()
 }
 
+/// The truth table of `f` over `vars` inputs as little-endian words (bit `i`
+/// of the table is `f(i)`).
+fn words_of(vars: usize, f: impl Fn(u64) -> bool) -> Vec<u64> {
+    let size = 1u64 << vars;
+    let mut words = vec![0u64; size.div_ceil(64) as usize];
+    for i in 0..size {
+        words[(i / 64) as usize] |= (f(i) as u64) << (i % 64);
+    }
+    words
+}
+
 /// The spec's expected value of every free line, by plain bit arithmetic;
 /// `None` outside the op's domain.
 fn reference_bits(spec: &Spec, free: &[bool]) -> Option<Vec<bool>> {
     match &spec.body {
         SpecBody::Function(f) => {
             let n = f.inputs.len();
-            let x = bits_to_u64(&free[..n])?;
             let mut out = free.to_vec();
+            let roots: Vec<NodeId> = f
+                .outputs
+                .iter()
+                .filter_map(|o| match o.def {
+                    OutputDef::Expr(r) => Some(r),
+                    OutputDef::Table(_) => None,
+                })
+                .collect();
+            let pattern = |j: u32, _: u64| if free[j as usize] { !0 } else { 0 };
+            let mut exprs = Compiled::new(&f.dag, &roots)
+                .run(0, 1, &pattern)
+                .into_iter()
+                .map(|r| r[0] & 1 == 1);
             for (k, o) in f.outputs.iter().enumerate() {
                 let v = match &o.def {
-                    OutputDef::Expr(e) => e.eval(x),
-                    OutputDef::Table(t) => t.get(x as usize),
+                    OutputDef::Expr(_) => exprs.next().expect("one value per expression output"),
+                    OutputDef::Table(t) => t.get(bits_to_u64(&free[..n])? as usize),
                 };
                 out[n + k] ^= v;
             }

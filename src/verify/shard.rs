@@ -1,8 +1,10 @@
 //! Sharded exhaustive verification: one slice of the state space per job, and a
 //! merge that accepts only a complete, consistent set of slices.
 
-use super::{verify_words, Counterexample, Verdict, VerifyError, VerifyOptions};
+use super::exhaustive::verify_words;
+use super::{Counterexample, Verdict, VerifyError, VerifyOptions};
 use crate::circuit::Circuit;
+use crate::progress::Progress;
 use crate::spec::Spec;
 use serde::{Deserialize, Serialize};
 
@@ -60,7 +62,7 @@ pub fn verify_shard(
     of: u64,
     circuit_bytes: &[u8],
     spec_bytes: &[u8],
-    progress: &(dyn Fn(u64, u64) + Sync),
+    progress: &dyn Progress,
 ) -> Result<ShardResult, VerifyError> {
     let bits = super::free_lines(circuit, spec)?;
     if bits >= 63 {

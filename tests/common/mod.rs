@@ -317,3 +317,15 @@ pub fn workspace() -> tempfile::TempDir {
     }
     dir
 }
+
+/// Installs, once per test binary, a table handle whose 4-line tables live
+/// in the build's temporary folder (built there once, then read), the way the
+/// binary keeps them in the user's cache. A test that runs before any other
+/// asks for a table may call it; calling it later is harmless.
+pub fn tables() {
+    static ONCE: std::sync::Once = std::sync::Once::new();
+    ONCE.call_once(|| {
+        let dir = std::path::PathBuf::from(env!("CARGO_TARGET_TMPDIR")).join("tables");
+        let _ = oraculum::Tables::stored(dir).install();
+    });
+}

@@ -8,8 +8,7 @@
 //! whenever the scaffold's inputs are left alone by the effects (each generator
 //! keeps to that; the verifier checks it).
 
-use crate::circuit::{Circuit, Control, Gate, Line, LineInfo, Role};
-use crate::lower::ANCILLA_REGISTER;
+use crate::circuit::{Circuit, Control, Gate, Line, LineInfo};
 
 /// A bit known when the circuit is built (a constant) or held on a line,
 /// possibly negated.
@@ -78,7 +77,6 @@ pub struct Builder {
     circuit: Circuit,
     ctrl: Option<Line>,
     free: Vec<Line>,
-    ancillae: u32,
 }
 
 impl Builder {
@@ -88,7 +86,6 @@ impl Builder {
             circuit: Circuit::new(lines),
             ctrl,
             free: Vec::new(),
-            ancillae: 0,
         }
     }
 
@@ -107,14 +104,7 @@ impl Builder {
         if let Some(l) = self.free.pop() {
             return l;
         }
-        let index = self.ancillae;
-        self.ancillae += 1;
-        self.circuit.add_line(LineInfo {
-            register: ANCILLA_REGISTER.into(),
-            index,
-            role: Role::Ancilla,
-            label: format!("anc{index}"),
-        })
+        self.circuit.add_ancilla()
     }
 
     /// Returns an ancilla that is back at 0.

@@ -23,7 +23,8 @@ mod build;
 
 pub use build::{Bit, Builder};
 
-use crate::circuit::{Circuit, Control, Gate, Line, LineInfo, Role};
+use crate::circuit::layout::{CARRY, CONTROL, OUTPUTS};
+use crate::circuit::{Circuit, Control, Gate, Line, LineInfo};
 use crate::spec::{ArithOp, ArithSpec};
 
 /// The registers of an arithmetic circuit, as line numbers.
@@ -41,46 +42,23 @@ pub struct Registers {
     pub cout: Option<Line>,
 }
 
-/// Lays out the registers of `spec` in OpenQASM order: `ctrl`, `a`, `b`, `y`/`cout`.
+/// The lines of `spec` in the order of its layout (`ctrl`, `a`, `b`, `y`/`cout`),
+/// and where each register is.
 pub fn arith_lines(spec: &ArithSpec) -> (Vec<LineInfo>, Registers) {
-    let mut lines = Vec::new();
-    let mut regs = Registers::default();
-    let reg = |lines: &mut Vec<LineInfo>, name: &str, size: usize, role: Role| -> Vec<Line> {
-        (0..size)
-            .map(|i| {
-                lines.push(LineInfo {
-                    register: name.into(),
-                    index: i as u32,
-                    role,
-                    label: format!("{name}{i}"),
-                });
-                Line(lines.len() as u32 - 1)
-            })
+    let lines = spec.layout().lines();
+    let find = |name: &str| -> Vec<Line> {
+        (0..lines.len() as u32)
+            .filter(|&i| lines[i as usize].register == name)
+            .map(Line)
             .collect()
     };
-    if spec.controlled {
-        regs.ctrl = Some(reg(&mut lines, "ctrl", 1, Role::Input)[0]);
-    }
-    let w = spec.width;
-    use ArithOp::*;
-    let a_role = match spec.op {
-        AddConst | IncrementMod => Role::Data,
-        _ => Role::Input,
+    let regs = Registers {
+        ctrl: find(CONTROL).first().copied(),
+        a: find("a"),
+        b: find("b"),
+        y: find(OUTPUTS),
+        cout: find(CARRY).first().copied(),
     };
-    regs.a = reg(&mut lines, "a", w, a_role);
-    match spec.op {
-        Add | Sub | AddMod => regs.b = reg(&mut lines, "b", w, Role::Data),
-        LessThan => regs.b = reg(&mut lines, "b", w, Role::Input),
-        _ => {}
-    }
-    match spec.op {
-        LessThan | LessThanConst | EqualConst => regs.y = reg(&mut lines, "y", 1, Role::Output),
-        Lookup => regs.y = reg(&mut lines, "y", spec.data_width, Role::Output),
-        _ => {}
-    }
-    if spec.op == Add && spec.carry_out {
-        regs.cout = Some(reg(&mut lines, "cout", 1, Role::Output)[0]);
-    }
     (lines, regs)
 }
 

@@ -1,0 +1,88 @@
+//! `oraculum compare`: every method that applies, verified, in one table, and the qubit trade-off curve.
+
+use crate::cli::args::LimitArgs;
+use crate::cli::files::load_spec;
+use crate::cli::render::stop_hint;
+use crate::cli::{code, Failure};
+use oraculum::export::json::CompareReport;
+use oraculum::pipeline::{best_of, compare, tradeoff};
+use oraculum::{Verdict, Verification};
+use std::path::Path;
+
+pub fn run(spec_path: &Path, json: bool, limits: &LimitArgs) -> Result<i32, Failure> {
+    let spec = load_spec(spec_path)?;
+    let opts = limits.build_options(None, true);
+    let rows = compare(&spec, &opts);
+    let best = best_of(&rows);
+    let curve = tradeoff(&spec, &opts);
+    let refuted = rows.iter().any(|(_, r)| {
+        matches!(r, Ok(o) if matches!(o.verification, Verification::Ran(Verdict::Refuted { .. })))
+    });
+    if json {
+        let report = CompareReport::new(
+            spec_path.display().to_string(),
+            spec.name.as_deref(),
+            &rows,
+            best,
+            &curve,
+        );
+        println!(
+            "{}",
+            serde_json::to_string_pretty(&report).unwrap_or_default()
+        );
+    } else {
+        println!(
+            "{:<17} {:>8} {:>8} {:>8} {:>7} {:>8} {:>9}  verified",
+            "method", "mct", "toffoli", "cnot", "qubits", "t-count", "seconds"
+        );
+        for (m, r) in &rows {
+            match r {
+                Ok(o) => {
+                    let secs = o.timings.synth + o.timings.lower + o.timings.verify;
+                    let v = match &o.verification {
+                        Verification::Ran(v) => v.summary(),
+                        _ => "no".into(),
+                    };
+                    let mark = if Some(*m) == best { "*" } else { " " };
+                    println!(
+                        "{:<17} {:>8} {:>8} {:>8} {:>7} {:>8} {:>9.3}  {v}",
+                        format!("{m}{mark}"),
+                        o.cost.mct_total(),
+                        o.cost.toffoli,
+                        o.cost.cnot,
+                        o.cost.qubits,
+                        o.cost.t_count,
+                        secs
+                    );
+                    for n in &o.notes {
+                        println!("{:<17} note: {n}", "");
+                    }
+                    if let Some(stop) = &o.stop {
+                        println!("{:<17} note: {}", "", stop_hint(stop));
+                    }
+                }
+                Err(e) => println!("{:<17} no circuit: {e}", m.name()),
+            }
+        }
+        if let Some(m) = best {
+            println!(
+                "* fewest Toffolis among verified circuits: {m} (synth --method {m} writes it)"
+            );
+        }
+        if curve.len() > 1 {
+            println!("\nqubits against Toffolis, bennett with --max-qubits:");
+            for o in &curve {
+                let v = if o.verification.is_proven() {
+                    "verified"
+                } else {
+                    "NOT verified"
+                };
+                println!(
+                    "  {:>5} qubits  {:>6} toffoli  {v}",
+                    o.cost.qubits, o.cost.toffoli
+                );
+            }
+        }
+    }
+    Ok(if refuted { code::REFUTED } else { code::DONE })
+}

@@ -1,0 +1,59 @@
+//! `oraculum draw`: a circuit or a spec's circuit, in the terminal or as SVG.
+
+use crate::cli::files::{load_circuit, load_spec, write_atomic};
+use crate::cli::render::build_failure;
+use crate::cli::{code, Failure};
+use oraculum::export::{draw_svg, draw_text};
+use oraculum::{build, BuildOptions, Method};
+use std::path::Path;
+
+pub fn run(
+    input: &Path,
+    svg: Option<&Path>,
+    width: Option<usize>,
+    lowered: bool,
+    method: Option<Method>,
+    json: bool,
+) -> Result<i32, Failure> {
+    let is_qasm = input.extension().is_some_and(|e| e == "qasm");
+    let (circuit, title) = if is_qasm {
+        (load_circuit(input)?, input.display().to_string())
+    } else {
+        let spec = load_spec(input)?;
+        let out = build(
+            &spec,
+            &BuildOptions {
+                method,
+                ..BuildOptions::default()
+            },
+        )
+        .map_err(build_failure)?;
+        let title = format!(
+            "{} ({}{})",
+            spec.name
+                .clone()
+                .unwrap_or_else(|| input.display().to_string()),
+            out.method,
+            if lowered { ", lowered" } else { "" }
+        );
+        (if lowered { out.lowered } else { out.mct }, title)
+    };
+    if json {
+        println!(
+            "{}",
+            serde_json::to_string_pretty(&circuit).unwrap_or_default()
+        );
+        return Ok(code::DONE);
+    }
+    if let Some(p) = svg {
+        write_atomic(p, &draw_svg(&circuit, &title), &[input])?;
+        println!("wrote {} ({} gates)", p.display(), circuit.gates().len());
+        return Ok(code::DONE);
+    }
+    let cols = width
+        .or_else(|| std::env::var("COLUMNS").ok().and_then(|c| c.parse().ok()))
+        .unwrap_or(100);
+    println!("{title}");
+    print!("{}", draw_text(&circuit, cols));
+    Ok(code::DONE)
+}

@@ -1,0 +1,53 @@
+//! `oraculum methods`, `completions` and `man`: what the tool offers, from its own definitions.
+
+use crate::cli::args::Cli;
+use crate::cli::{code, Failure};
+use oraculum::export::json::{MethodRow, MethodsReport};
+use oraculum::Method;
+use std::io::Write;
+
+/// `auto` first, then every method, with what each takes and does.
+fn rows() -> Vec<MethodRow> {
+    std::iter::once(MethodRow {
+        method: "auto",
+        about: "the best method that applies to the spec",
+    })
+    .chain(Method::all().map(|m| MethodRow {
+        method: m.name(),
+        about: m.about(),
+    }))
+    .collect()
+}
+
+pub fn methods(json: bool) -> Result<i32, Failure> {
+    let methods = rows();
+    if json {
+        println!(
+            "{}",
+            serde_json::to_string_pretty(&MethodsReport { methods }).unwrap_or_default()
+        );
+    } else {
+        for r in methods {
+            println!("{:<14} {}", r.method, r.about);
+        }
+    }
+    Ok(code::DONE)
+}
+
+pub fn completions(shell: clap_complete::Shell) -> Result<i32, Failure> {
+    let mut cmd = <Cli as clap::CommandFactory>::command();
+    clap_complete::generate(shell, &mut cmd, "oraculum", &mut std::io::stdout());
+    Ok(code::DONE)
+}
+
+pub fn man() -> Result<i32, Failure> {
+    let cmd = <Cli as clap::CommandFactory>::command();
+    let mut out = Vec::new();
+    clap_mangen::Man::new(cmd)
+        .render(&mut out)
+        .map_err(|e| Failure::bad(format!("cannot render the manual: {e}")))?;
+    std::io::stdout()
+        .write_all(&out)
+        .map_err(|e| Failure::bad(format!("cannot write the manual: {e}")))?;
+    Ok(code::DONE)
+}

@@ -1,0 +1,85 @@
+//! `oraculum synth`: build, verify and write one spec.
+
+use crate::cli::args::{Format, LimitArgs};
+use crate::cli::files::{load_spec, write_atomic};
+use crate::cli::render::{build_failure, stop_hint, Bars};
+use crate::cli::{code, Failure};
+use oraculum::export::json::SynthReport;
+use oraculum::export::listing;
+use oraculum::{build_with_progress, Method, Verdict, Verification};
+use std::path::Path;
+
+pub fn run(
+    spec_path: &Path,
+    output: Option<&Path>,
+    method: Option<Method>,
+    json: bool,
+    no_verify: bool,
+    format: Format,
+    limits: &LimitArgs,
+) -> Result<i32, Failure> {
+    let spec = load_spec(spec_path)?;
+    let opts = limits.build_options(method, !no_verify);
+    let out = build_with_progress(&spec, &opts, &Bars::new(json)).map_err(build_failure)?;
+    if let Verification::Ran(Verdict::Refuted { counterexample }) = &out.verification {
+        if json {
+            println!(
+                "{}",
+                serde_json::to_string_pretty(&out.report()).unwrap_or_default()
+            );
+        }
+        return Err(Failure::with_code(
+            code::REFUTED,
+            format!(
+                "the synthesized circuit failed verification; nothing was written\n{counterexample}"
+            ),
+        ));
+    }
+    let text = match format {
+        Format::Qasm => out
+            .qasm()
+            .map_err(|e| Failure::bad(format!("cannot write OpenQASM 2: {e}")))?,
+        Format::Text => listing(&out.lowered),
+    };
+    if let Some(path) = output {
+        write_atomic(path, &text, &[spec_path])?;
+    }
+    if json {
+        let report = SynthReport {
+            report: out.report(),
+            output: output.map(|p| p.display().to_string()),
+            circuit: output.is_none().then(|| text.clone()),
+        };
+        println!(
+            "{}",
+            serde_json::to_string_pretty(&report).unwrap_or_default()
+        );
+        return Ok(code::DONE);
+    }
+    let label = out
+        .name
+        .clone()
+        .unwrap_or_else(|| spec_path.display().to_string());
+    let verdict = match &out.verification {
+        Verification::Ran(v) => v.summary(),
+        _ => "NOT verified (--no-verify)".to_string(),
+    };
+    let mut summary = format!("{label}: method {}, {verdict}\n{}\n", out.method, out.cost);
+    for n in &out.notes {
+        summary.push_str(&format!("  note: {n}\n"));
+    }
+    if let Some(stop) = &out.stop {
+        summary.push_str(&format!("  note: {}\n", stop_hint(stop)));
+    }
+    match output {
+        Some(p) => {
+            print!("{summary}");
+            println!("wrote {}", p.display());
+        }
+        None => {
+            print!("{text}");
+            eprint!("{summary}");
+        }
+    }
+    Ok(code::DONE)
+}

@@ -1,0 +1,179 @@
+//! `oraculum verify` (against a spec, a shard of it, or another circuit) and `oraculum merge`.
+
+use crate::cli::files::{load_circuit, load_spec, read_text, write_atomic};
+use crate::cli::render::{verify_failure, Bars};
+use crate::cli::{code, Failure};
+use oraculum::export::json::VerifyReport;
+use oraculum::verify::{merge_shards, verify_against, verify_shard, ShardResult};
+use oraculum::{parse_spec, read_qasm, verify_with_progress, Verdict, VerifyOptions};
+use std::path::{Path, PathBuf};
+use std::time::Instant;
+
+fn exit(v: &Verdict) -> i32 {
+    if matches!(v, Verdict::Refuted { .. }) {
+        code::REFUTED
+    } else {
+        code::DONE
+    }
+}
+
+fn print_json<T: serde::Serialize>(value: &T) {
+    println!(
+        "{}",
+        serde_json::to_string_pretty(value).unwrap_or_default()
+    );
+}
+
+/// `verify CIRCUIT --spec SPEC`.
+pub fn file(circuit: &Path, spec: &Path, json: bool, opts: &VerifyOptions) -> Result<i32, Failure> {
+    let c = load_circuit(circuit)?;
+    let s = load_spec(spec)?;
+    let t = Instant::now();
+    let verdict = verify_with_progress(&c, &s, opts, &Bars::new(json))
+        .map_err(|e| verify_failure(circuit, e))?;
+    let seconds = t.elapsed().as_secs_f64();
+    if json {
+        print_json(&VerifyReport {
+            verdict: &verdict,
+            circuit: circuit.display().to_string(),
+            spec: Some(spec.display().to_string()),
+            against: None,
+            seconds: Some(seconds),
+        });
+    } else {
+        match &verdict {
+            Verdict::Proven { .. } => println!(
+                "{}: {} against {}",
+                circuit.display(),
+                verdict.summary(),
+                spec.display()
+            ),
+            Verdict::Refuted { counterexample } => println!(
+                "{}: refuted against {}\n{counterexample}",
+                circuit.display(),
+                spec.display()
+            ),
+        }
+    }
+    Ok(exit(&verdict))
+}
+
+/// `verify CIRCUIT --against OTHER`.
+pub fn against(
+    circuit: &Path,
+    other: &Path,
+    json: bool,
+    opts: &VerifyOptions,
+) -> Result<i32, Failure> {
+    let a = load_circuit(circuit)?;
+    let b = load_circuit(other)?;
+    let verdict = verify_against(&a, &b, opts).map_err(|e| verify_failure(circuit, e))?;
+    if json {
+        print_json(&VerifyReport {
+            verdict: &verdict,
+            circuit: circuit.display().to_string(),
+            spec: None,
+            against: Some(other.display().to_string()),
+            seconds: None,
+        });
+    } else {
+        match &verdict {
+            Verdict::Proven { .. } => println!(
+                "{}: equivalent to {}, {}",
+                circuit.display(),
+                other.display(),
+                verdict.summary()
+            ),
+            Verdict::Refuted { counterexample } => println!(
+                "{}: differs from {}\n{counterexample}",
+                circuit.display(),
+                other.display()
+            ),
+        }
+    }
+    Ok(exit(&verdict))
+}
+
+fn parse_shard(text: &str) -> Result<(u64, u64), Failure> {
+    let bad = || {
+        Failure::bad(format!(
+            "--shard takes K/N with 0 <= K < N, for example 3/16; got '{text}'"
+        ))
+    };
+    let (k, n) = text.split_once('/').ok_or_else(bad)?;
+    let k: u64 = k.trim().parse().map_err(|_| bad())?;
+    let n: u64 = n.trim().parse().map_err(|_| bad())?;
+    if n == 0 || k >= n || n > 1 << 20 {
+        return Err(bad());
+    }
+    Ok((k, n))
+}
+
+/// `verify CIRCUIT --spec SPEC --shard K/N`.
+pub fn shard(
+    circuit: &Path,
+    spec: &Path,
+    shard: &str,
+    output: Option<&Path>,
+    opts: &VerifyOptions,
+) -> Result<i32, Failure> {
+    let (k, n) = parse_shard(shard)?;
+    let circuit_text = read_text(circuit)?;
+    let spec_text = read_text(spec)?;
+    let c = read_qasm(&circuit.display().to_string(), &circuit_text)?;
+    let s = parse_spec(&spec.display().to_string(), &spec_text)?;
+    let r = verify_shard(
+        &c,
+        &s,
+        opts,
+        k,
+        n,
+        circuit_text.as_bytes(),
+        spec_text.as_bytes(),
+        &Bars::new(output.is_none()),
+    )
+    .map_err(|e| verify_failure(circuit, e))?;
+    let text = serde_json::to_string_pretty(&r).unwrap_or_default() + "\n";
+    match output {
+        Some(p) => {
+            write_atomic(p, &text, &[circuit, spec])?;
+            println!(
+                "shard {k}/{n}: {} states checked, {}; wrote {}",
+                r.states,
+                if r.proven { "all correct" } else { "REFUTED" },
+                p.display()
+            );
+        }
+        None => print!("{text}"),
+    }
+    Ok(if r.proven { code::DONE } else { code::REFUTED })
+}
+
+/// `merge RESULT...`.
+pub fn merge(paths: &[PathBuf], json: bool) -> Result<i32, Failure> {
+    let mut results = Vec::new();
+    for p in paths {
+        let text = read_text(p)?;
+        let r: ShardResult = serde_json::from_str(&text).map_err(|e| {
+            Failure::bad(format!(
+                "{}:{}:{}: not a shard result file: {e}",
+                p.display(),
+                e.line(),
+                e.column()
+            ))
+        })?;
+        results.push(r);
+    }
+    let v = merge_shards(&results).map_err(|e| Failure::bad(e.to_string()))?;
+    if json {
+        print_json(&v);
+    } else {
+        match &v {
+            Verdict::Proven { .. } => println!("{} shards: {}", results.len(), v.summary()),
+            Verdict::Refuted { counterexample } => {
+                println!("{} shards: refuted\n{counterexample}", results.len())
+            }
+        }
+    }
+    Ok(exit(&v))
+}

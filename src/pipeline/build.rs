@@ -1,0 +1,60 @@
+//! One method through the whole job: synthesize, optimize, lower, measure, verify.
+
+use super::{BuildError, BuildOptions, Outcome, Timings, Verification};
+use crate::circuit::{Circuit, Cost};
+use crate::lower::lower;
+use crate::opt::optimize;
+use crate::progress::Progress;
+use crate::spec::Spec;
+use crate::synth::{synthesize, Method};
+use crate::verify::verify_with_progress;
+use std::time::Instant;
+
+/// Most gates for which the optimizer runs.
+pub const OPTIMIZE_MAX_GATES: usize = 50_000;
+
+/// The circuit after [`optimize`] (which never makes it worse once lowered),
+/// and its lowered form.
+fn optimized(mut mct: Circuit) -> (Circuit, Circuit) {
+    if mct.gates().len() <= OPTIMIZE_MAX_GATES {
+        optimize(&mut mct);
+    }
+    let lowered = lower(&mct);
+    (mct, lowered)
+}
+
+/// Synthesizes with one method, optimizes, lowers, measures, and verifies.
+pub fn build_one(
+    spec: &Spec,
+    method: Method,
+    opts: &BuildOptions,
+    progress: &dyn Progress,
+) -> Result<Outcome, BuildError> {
+    let t0 = Instant::now();
+    let synthesis = synthesize(spec, method, &opts.limits, progress)?;
+    let t1 = Instant::now();
+    let (mct, lowered) = optimized(synthesis.circuit);
+    let t2 = Instant::now();
+    let cost = Cost::measure(&mct, &lowered);
+    let verification = match &opts.verify {
+        Some(v) => Verification::Ran(verify_with_progress(&lowered, spec, v, progress)?),
+        None => Verification::Skipped { verdict: "skipped" },
+    };
+    let t3 = Instant::now();
+    Ok(Outcome {
+        name: spec.name.clone(),
+        method,
+        mct,
+        lowered,
+        cost,
+        verification,
+        timings: Timings {
+            synth: (t1 - t0).as_secs_f64(),
+            lower: (t2 - t1).as_secs_f64(),
+            verify: (t3 - t2).as_secs_f64(),
+        },
+        notes: synthesis.notes,
+        stop: synthesis.stop,
+        form: spec.form,
+    })
+}

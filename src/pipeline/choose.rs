@@ -1,0 +1,189 @@
+//! The choice of method (`auto`), in one place: which methods apply to a
+//! spec, how verified circuits are ranked, and the runs of `compare` and the
+//! qubit trade-off curve that use the same ranking.
+
+use super::build::build_one;
+use super::{BuildError, BuildOptions, Outcome, Verification};
+use crate::progress::Progress;
+use crate::spec::{Spec, SpecBody};
+use crate::synth::{network_of, Method, SynthError, EXACT_ESOP_MAX_INPUTS};
+use crate::verify::Verdict;
+
+/// Every method that applies to `spec`, cheapest first; `thorough` adds the
+/// slow ones (used by `compare`).
+pub fn candidates(spec: &Spec, thorough: bool) -> Vec<Method> {
+    match &spec.body {
+        SpecBody::Function(f) => {
+            let n = f.inputs.len();
+            let mut v = vec![
+                Method::ReedMuller,
+                Method::Esop,
+                Method::Bennett,
+                Method::Hierarchical,
+            ];
+            let instant = n <= 4 && f.outputs.len() == 1;
+            if instant || (thorough && n <= EXACT_ESOP_MAX_INPUTS) {
+                v.push(Method::EsopExact);
+            }
+            // The xor embedding of at most 4 lines has an exact optimum.
+            if n + f.outputs.len() <= 4 {
+                v.push(Method::Exact);
+            }
+            v
+        }
+        SpecBody::Permutation(p) if p.width() <= 4 => {
+            vec![Method::Transform, Method::TransformBidir, Method::Exact]
+        }
+        SpecBody::Permutation(_) => vec![Method::Transform, Method::TransformBidir],
+        SpecBody::Arithmetic(_) => vec![Method::Structural],
+    }
+}
+
+/// Synthesizes, lowers, measures and (unless told not to) verifies `spec`.
+pub fn build(spec: &Spec, opts: &BuildOptions) -> Result<Outcome, BuildError> {
+    build_with_progress(spec, opts, &())
+}
+
+/// [`build`] reporting long work to `progress`.
+///
+/// Without a method (`auto`) every cheap method that applies is run and
+/// verified, and the verified circuit with the fewest Toffolis (then qubits,
+/// then gates) is returned; the notes say what was tried.
+pub fn build_with_progress(
+    spec: &Spec,
+    opts: &BuildOptions,
+    progress: &dyn Progress,
+) -> Result<Outcome, BuildError> {
+    if let Some(m) = opts.method {
+        return build_one(spec, m, opts, progress);
+    }
+    let tried: Vec<(Method, Result<Outcome, BuildError>)> = candidates(spec, false)
+        .into_iter()
+        .map(|m| (m, build_one(spec, m, opts, progress)))
+        .collect();
+    pick_best(tried, opts.limits.max_qubits)
+}
+
+/// Runs every method that applies (the slow ones too), each verified when
+/// `opts.verify` asks for it; for `oraculum compare`.
+pub fn compare(spec: &Spec, opts: &BuildOptions) -> Vec<(Method, Result<Outcome, BuildError>)> {
+    candidates(spec, true)
+        .into_iter()
+        .map(|m| (m, build_one(spec, m, opts, &())))
+        .collect()
+}
+
+/// The method whose verified circuit ranks first among `rows`, as `auto`
+/// ranks them.
+pub fn best_of(rows: &[(Method, Result<Outcome, BuildError>)]) -> Option<Method> {
+    rows.iter()
+        .filter_map(|(m, r)| r.as_ref().ok().map(|o| (m, o)))
+        .filter(|(_, o)| o.verification.is_proven())
+        .min_by_key(|(_, o)| rank(o, None))
+        .map(|(m, _)| *m)
+}
+
+/// Most network nodes for which [`tradeoff`] schedules.
+pub const TRADEOFF_MAX_NODES: usize = 200;
+
+/// Bennett's qubit/Toffoli trade-off for a function spec: plain Bennett, then
+/// one qubit fewer at a time until no schedule fits (or a network too large to
+/// schedule, past [`TRADEOFF_MAX_NODES`] nodes, stops it). Each point is
+/// verified as `opts` says.
+pub fn tradeoff(spec: &Spec, opts: &BuildOptions) -> Vec<Outcome> {
+    let SpecBody::Function(f) = &spec.body else {
+        return Vec::new();
+    };
+    let Ok(net) = network_of(f) else {
+        return Vec::new();
+    };
+    if net.gates() > TRADEOFF_MAX_NODES {
+        return Vec::new();
+    }
+    let mut points = Vec::new();
+    let mut o = *opts;
+    o.limits.max_qubits = None;
+    let Ok(plain) = build_one(spec, Method::Bennett, &o, &()) else {
+        return points;
+    };
+    let mut q = plain.cost.qubits;
+    points.push(plain);
+    while q > 1 {
+        q -= 1;
+        o.limits.max_qubits = Some(q);
+        match build_one(spec, Method::Bennett, &o, &()) {
+            Ok(p) => {
+                q = p.cost.qubits;
+                points.push(p);
+            }
+            Err(_) => break,
+        }
+    }
+    points
+}
+
+/// The ranking of `auto` and `compare`: within the qubit budget, then
+/// verified, then fewest Toffolis, qubits and gates before lowering.
+fn rank(o: &Outcome, max_qubits: Option<usize>) -> (u8, u8, usize, usize, usize) {
+    let verdict = match &o.verification {
+        Verification::Ran(Verdict::Proven { .. }) | Verification::Skipped { .. } => 0,
+        Verification::Ran(Verdict::Refuted { .. }) => 1,
+    };
+    let over = max_qubits.is_some_and(|q| o.cost.qubits > q) as u8;
+    (
+        over,
+        verdict,
+        o.cost.toffoli,
+        o.cost.qubits,
+        o.cost.mct_total(),
+    )
+}
+
+fn pick_best(
+    tried: Vec<(Method, Result<Outcome, BuildError>)>,
+    max_qubits: Option<usize>,
+) -> Result<Outcome, BuildError> {
+    let summary: Vec<String> = tried
+        .iter()
+        .map(|(m, r)| match r {
+            Ok(o) => format!("{m} ({} Toffoli)", o.cost.toffoli),
+            Err(e) => format!("{m} (no circuit: {e})"),
+        })
+        .collect();
+    let mut first_error = None;
+    let mut best: Option<Outcome> = None;
+    for (_, r) in tried {
+        match r {
+            Ok(o) => {
+                if best
+                    .as_ref()
+                    .is_none_or(|b| rank(&o, max_qubits) < rank(b, max_qubits))
+                {
+                    best = Some(o);
+                }
+            }
+            Err(e) => {
+                first_error.get_or_insert(e);
+            }
+        }
+    }
+    if let (Some(q), Some(o)) = (max_qubits, &best) {
+        if o.cost.qubits > q {
+            return Err(first_error.unwrap_or(BuildError::Synth(SynthError::Budget {
+                budget: q,
+                needed: o.cost.qubits,
+            })));
+        }
+    }
+    match best {
+        Some(mut o) => {
+            o.notes.push(format!(
+                "auto: tried {}; picked {}",
+                summary.join(", "),
+                o.method
+            ));
+            Ok(o)
+        }
+        None => Err(first_error.expect("at least one method applies to every spec")),
+    }
+}
