@@ -240,7 +240,7 @@ pub fn read_qasm(path: &str, text: &str) -> Result<Circuit, LocatedError> {
                     lines.push(LineInfo {
                         register: name.clone(),
                         index: i,
-                        role: if name == "anc" {
+                        role: if name == crate::circuit::layout::ANCILLAE {
                             Role::Ancilla
                         } else {
                             Role::Data

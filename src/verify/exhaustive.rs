@@ -4,6 +4,7 @@ use super::bind::{bind, Binding};
 use super::eval::Compiled;
 use super::reference::{arithmetic_reference, Model, Reference};
 use super::{Counterexample, RegisterValue, Verdict, VerifyError, VerifyOptions, BLOCK_WORDS};
+use crate::circuit::layout::ANCILLAE;
 use crate::circuit::Circuit;
 use crate::progress::{Event, Progress};
 use crate::spec::{OutputDef, Spec, SpecBody};
@@ -365,7 +366,7 @@ impl Checker<'_> {
             state: Some(state),
             input: show(&before)
                 .into_iter()
-                .filter(|r| r.register != "anc")
+                .filter(|r| r.register != ANCILLAE)
                 .collect(),
             expected: show(&want),
             actual: show(&v),

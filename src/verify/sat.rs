@@ -14,6 +14,7 @@
 use super::bind::{bind, Binding};
 use super::eval::Compiled;
 use super::{Counterexample, RegisterValue};
+use crate::circuit::layout::ANCILLAE;
 use crate::circuit::Circuit;
 use crate::logic::{Dag, NodeId, Term};
 use crate::spec::{ArithOp, ArithSpec, OutputDef, Spec, SpecBody};
@@ -565,7 +566,7 @@ fn confirm(
             }),
             input: show(&before)
                 .into_iter()
-                .filter(|r| r.register != "anc")
+                .filter(|r| r.register != ANCILLAE)
                 .collect(),
             expected: show(&want_lines),
             actual: show(&v),
@@ -744,7 +745,7 @@ pub fn circuits_equivalent(
     let regs = |c: &Circuit| -> Vec<(String, usize)> {
         c.registers()
             .into_iter()
-            .filter(|(n, _)| n != "anc")
+            .filter(|(n, _)| n != ANCILLAE)
             .collect()
     };
     let (ra, rb) = (regs(a), regs(b));
@@ -776,7 +777,7 @@ pub fn circuits_equivalent(
         .zip(&free_b)
         .map(|(&la, &lb)| cnf.xor(out_a[la], out_b[lb]))
         .collect();
-    diffs.extend(a.register("anc").iter().map(|l| out_a[l.index()]));
+    diffs.extend(a.register(ANCILLAE).iter().map(|l| out_a[l.index()]));
     match cnf.find(&diffs, &[], &free) {
         None => Ok(SatOutcome::Timeout),
         Some(None) => Ok(SatOutcome::Equivalent),
@@ -786,7 +787,7 @@ pub fn circuits_equivalent(
             let show = |c: &Circuit, vals: &[bool], with_anc: bool| -> Vec<RegisterValue> {
                 c.registers()
                     .into_iter()
-                    .filter(|(n, _)| with_anc || n != "anc")
+                    .filter(|(n, _)| with_anc || n != ANCILLAE)
                     .map(|(n, _)| {
                         let bits: Vec<bool> =
                             c.register(&n).iter().map(|l| vals[l.index()]).collect();
@@ -806,7 +807,7 @@ pub fn circuits_equivalent(
                         info.register, info.index
                     )
                 }
-                None => match a.register("anc").iter().find(|l| va[l.index()]) {
+                None => match a.register(ANCILLAE).iter().find(|l| va[l.index()]) {
                     Some(l) => format!(
                         "anc[{}] is 1: ancilla is not returned to 0",
                         a.lines()[l.index()].index
