@@ -500,12 +500,34 @@ fn shards_from_the_command_line() {
     }
     let o = run_in(
         dir.path(),
-        &["merge", "s0.json", "s1.json", "s2.json", "s3.json"],
+        &[
+            "merge",
+            "--circuit",
+            "f.qasm",
+            "--spec",
+            "specs/fuel-sum.toml",
+            "s0.json",
+            "s1.json",
+            "s2.json",
+            "s3.json",
+        ],
     );
     let (out, _) = text(&o);
     assert_eq!(o.status.code(), Some(0), "{out}");
     assert!(out.contains("verified on all 131072 basis states"), "{out}");
-    let o = run_in(dir.path(), &["merge", "s0.json", "s1.json", "s3.json"]);
+    let o = run_in(
+        dir.path(),
+        &[
+            "merge",
+            "--circuit",
+            "f.qasm",
+            "--spec",
+            "specs/fuel-sum.toml",
+            "s0.json",
+            "s1.json",
+            "s3.json",
+        ],
+    );
     assert_eq!(o.status.code(), Some(2));
     assert!(text(&o).1.contains("missing: [2]"), "{:?}", text(&o));
     let o = run_in(

@@ -208,24 +208,29 @@ fn shards_merge_into_the_same_verdict_and_gaps_are_refused() {
     let shards: Vec<_> = (0..5)
         .map(|k| verify_shard(&c, &s, &opts, k, 5, b"circuit", b"spec", &()).unwrap())
         .collect();
-    let merged = merge_shards(&shards).unwrap();
+    let merged = merge_shards(&shards, &c, &s, b"circuit", b"spec").unwrap();
     match (&whole, &merged) {
         (Verdict::Proven { states: a, .. }, Verdict::Proven { states: b, .. }) => assert_eq!(a, b),
         other => panic!("{other:?}"),
     }
     let mut missing = shards.clone();
     missing.remove(3);
-    assert!(matches!(merge_shards(&missing), Err(ShardError::Missing(m, 5)) if m == vec![3]));
+    assert!(
+        matches!(merge_shards(&missing, &c, &s, b"circuit", b"spec"), Err(ShardError::Missing(m, 5)) if m == vec![3])
+    );
     let mut doubled = shards.clone();
     doubled.push(shards[1].clone());
     assert!(matches!(
-        merge_shards(&doubled),
+        merge_shards(&doubled, &c, &s, b"circuit", b"spec"),
         Err(ShardError::Duplicate(1))
     ));
     let other = verify_shard(&c, &s, &opts, 2, 5, b"another circuit", b"spec", &()).unwrap();
     let mut mixed = shards.clone();
     mixed[2] = other;
-    assert!(matches!(merge_shards(&mixed), Err(ShardError::Mismatch(_))));
+    assert!(matches!(
+        merge_shards(&mixed, &c, &s, b"circuit", b"spec"),
+        Err(ShardError::Mismatch(_))
+    ));
     // A wrong circuit: some shard refutes, and so does the merge.
     let mut bad = c.clone();
     let mut gates = c.gates().to_vec();
@@ -235,7 +240,7 @@ fn shards_merge_into_the_same_verdict_and_gaps_are_refused() {
         .map(|k| verify_shard(&bad, &s, &opts, k, 5, b"bad", b"spec", &()).unwrap())
         .collect();
     assert!(matches!(
-        merge_shards(&shards).unwrap(),
+        merge_shards(&shards, &bad, &s, b"bad", b"spec").unwrap(),
         Verdict::Refuted { .. }
     ));
 }

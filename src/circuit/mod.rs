@@ -180,6 +180,11 @@ pub struct Circuit {
     /// Lines of the ancilla register, so that adding one is constant time.
     #[serde(skip)]
     ancillae: u32,
+    /// For a phase oracle: the line prepared in |-> (X then H) before the
+    /// gates and restored (H then X) after them, so that the gates, an xor
+    /// oracle onto it, apply `(-1)^f(x)`.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    phase: Option<Line>,
 }
 
 /// A gate referred to a line that the circuit does not have.
@@ -202,6 +207,7 @@ impl Circuit {
             lines,
             gates: Vec::new(),
             ancillae,
+            phase: None,
         }
     }
 
@@ -228,6 +234,7 @@ impl Circuit {
             lines,
             gates,
             ancillae,
+            phase: None,
         })
     }
 
@@ -246,6 +253,18 @@ impl Circuit {
         self.ancillae += (info.register == layout::ANCILLAE) as u32;
         self.lines.push(info);
         Line(self.lines.len() as u32 - 1)
+    }
+
+    /// The phase oracle's prepared line, if the circuit is one.
+    pub fn phase(&self) -> Option<Line> {
+        self.phase
+    }
+
+    /// Makes the circuit a phase oracle on `line` (prepared in |-> and
+    /// restored around the gates), or an xor oracle with `None`.
+    pub fn set_phase(&mut self, line: Option<Line>) {
+        debug_assert!(line.is_none_or(|l| l.index() < self.lines.len()));
+        self.phase = line;
     }
 
     /// The lines.

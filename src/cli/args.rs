@@ -98,12 +98,21 @@ pub enum Command {
         /// With --shard: write the shard's result file here (else to standard output).
         #[arg(short, long)]
         output: Option<PathBuf>,
+        /// Most gates a circuit file may hold, whole-register statements expanded.
+        #[arg(long, default_value_t = oraculum::export::DEFAULT_MAX_GATES)]
+        max_gates: usize,
     },
-    /// Merge the result files of every shard into one verdict.
+    /// Merge the result files of every shard into one verdict, rechecking them against the circuit and spec.
     Merge {
         /// The shard result files.
         #[arg(required = true)]
         results: Vec<PathBuf>,
+        /// The circuit the shards checked.
+        #[arg(long)]
+        circuit: PathBuf,
+        /// The spec they checked it against.
+        #[arg(long)]
+        spec: PathBuf,
         /// Print the verdict as one JSON object.
         #[arg(long)]
         json: bool,
@@ -115,6 +124,9 @@ pub enum Command {
         /// Print the report as one JSON object.
         #[arg(long)]
         json: bool,
+        /// Most gates the file may hold, whole-register statements expanded.
+        #[arg(long, default_value_t = oraculum::export::DEFAULT_MAX_GATES)]
+        max_gates: usize,
     },
     /// Run every method that applies, verify each, and print one table.
     Compare {
@@ -145,6 +157,9 @@ pub enum Command {
         /// Print the circuit's lines and gates as one JSON object.
         #[arg(long)]
         json: bool,
+        /// For a circuit file: most gates it may hold, whole-register statements expanded.
+        #[arg(long, default_value_t = oraculum::export::DEFAULT_MAX_GATES)]
+        max_gates: usize,
     },
     /// Build the 4-line exact table (or load it from the cache) and print its figures.
     Table {

@@ -1,7 +1,8 @@
 //! Files: reading inputs with their names in messages, writing outputs atomically, the cache folder.
 
-use super::Failure;
-use oraculum::{parse_spec, read_qasm, Circuit, Spec};
+use super::{code, render, Failure};
+use oraculum::export::{read_qasm_with, ReadError, ReadLimits};
+use oraculum::{parse_spec, Circuit, Spec};
 use std::io::Write;
 use std::path::{Path, PathBuf};
 
@@ -25,9 +26,28 @@ pub fn load_spec(path: &Path) -> Result<Spec, Failure> {
     Ok(parse_spec(&path.display().to_string(), &text)?)
 }
 
-pub fn load_circuit(path: &Path) -> Result<Circuit, Failure> {
+/// Reads an OpenQASM 2 file within `max_gates` gates.
+pub fn load_circuit(path: &Path, max_gates: usize) -> Result<Circuit, Failure> {
     let text = read_text(path)?;
-    Ok(read_qasm(&path.display().to_string(), &text)?)
+    parse_circuit(path, &text, max_gates)
+}
+
+/// Parses OpenQASM 2 text read from `path`.
+pub fn parse_circuit(path: &Path, text: &str, max_gates: usize) -> Result<Circuit, Failure> {
+    let limits = ReadLimits {
+        max_gates,
+        ..ReadLimits::default()
+    };
+    read_qasm_with(&path.display().to_string(), text, &limits).map_err(|e| match e {
+        ReadError::Malformed(e) => Failure::from(e),
+        ReadError::Limit { kind, .. } => Failure::with_code(
+            code::LIMIT,
+            format!(
+                "{e}; raise it with {}",
+                render::flag(kind, render::Context::Verify)
+            ),
+        ),
+    })
 }
 
 /// Writes `contents` to a temporary file beside `path`, then renames it into place.

@@ -116,6 +116,7 @@ fn dispatch(cmd: Command) -> Result<i32, Failure> {
             sat_seconds,
             shard,
             output,
+            max_gates,
         } => {
             let opts = oraculum::VerifyOptions {
                 max_states,
@@ -123,18 +124,34 @@ fn dispatch(cmd: Command) -> Result<i32, Failure> {
                 sat_seconds,
             };
             match (spec, against) {
-                (_, Some(other)) => commands::verify::against(&circuit, &other, json, &opts),
+                (_, Some(other)) => {
+                    commands::verify::against(&circuit, &other, json, &opts, max_gates)
+                }
                 (Some(spec), None) => match shard {
-                    Some(k) => {
-                        commands::verify::shard(&circuit, &spec, &k, output.as_deref(), &opts)
-                    }
-                    None => commands::verify::file(&circuit, &spec, json, &opts),
+                    Some(k) => commands::verify::shard(
+                        &circuit,
+                        &spec,
+                        &k,
+                        output.as_deref(),
+                        &opts,
+                        max_gates,
+                    ),
+                    None => commands::verify::file(&circuit, &spec, json, &opts, max_gates),
                 },
                 (None, None) => Err(Failure::bad("verify needs --spec or --against")),
             }
         }
-        Command::Merge { results, json } => commands::verify::merge(&results, json),
-        Command::Cost { circuit, json } => commands::cost::run(&circuit, json),
+        Command::Merge {
+            results,
+            circuit,
+            spec,
+            json,
+        } => commands::verify::merge(&results, &circuit, &spec, json),
+        Command::Cost {
+            circuit,
+            json,
+            max_gates,
+        } => commands::cost::run(&circuit, json, max_gates),
         Command::Compare { spec, json, limits } => commands::compare::run(&spec, json, &limits),
         Command::Table {
             depth,
@@ -149,7 +166,16 @@ fn dispatch(cmd: Command) -> Result<i32, Failure> {
             lowered,
             method,
             json,
-        } => commands::draw::run(&input, svg.as_deref(), width, lowered, method.0, json),
+            max_gates,
+        } => commands::draw::run(
+            &input,
+            svg.as_deref(),
+            width,
+            lowered,
+            method.0,
+            json,
+            max_gates,
+        ),
         Command::Completions { shell } => commands::info::completions(shell),
         Command::Man => commands::info::man(),
     }

@@ -6,5 +6,8 @@ mod qasm2;
 mod text;
 
 pub use draw::{draw_svg, draw_text};
-pub use qasm2::{read_qasm, write_qasm, QasmHeader, WriteError};
+pub use qasm2::{
+    read_qasm, read_qasm_with, write_qasm, QasmHeader, ReadError, ReadLimits, WriteError,
+    DEFAULT_MAX_GATES,
+};
 pub use text::listing;

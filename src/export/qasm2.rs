@@ -13,8 +13,6 @@ pub struct QasmHeader {
     pub method: Option<String>,
     /// The cost report.
     pub cost: Option<Cost>,
-    /// For a phase oracle: the output line, prepared in |-> and restored.
-    pub phase: Option<Line>,
 }
 
 /// A circuit that OpenQASM 2 with `qelib1.inc` cannot express as is.
@@ -55,7 +53,7 @@ pub fn write_qasm(c: &Circuit, header: &QasmHeader) -> Result<String, WriteError
             cost.qubits, cost.toffoli, cost.cnot, cost.not, cost.depth, cost.toffoli_depth, cost.t_count
         );
     }
-    if let Some(p) = header.phase {
+    if let Some(p) = c.phase() {
         let l = &c.lines()[p.index()];
         let _ = writeln!(
             s,
@@ -91,7 +89,7 @@ pub fn write_qasm(c: &Circuit, header: &QasmHeader) -> Result<String, WriteError
         let info = &c.lines()[l.index()];
         format!("{}[{}]", info.register, info.index)
     };
-    if let Some(p) = header.phase {
+    if let Some(p) = c.phase() {
         let _ = writeln!(s, "x {};\nh {};", q(p), q(p));
     }
     for (k, g) in c.gates().iter().enumerate() {
@@ -107,7 +105,7 @@ pub fn write_qasm(c: &Circuit, header: &QasmHeader) -> Result<String, WriteError
             _ => return Err(WriteError::NotLowered(k)),
         };
     }
-    if let Some(p) = header.phase {
+    if let Some(p) = c.phase() {
         let _ = writeln!(s, "h {};\nx {};", q(p), q(p));
     }
     Ok(s)
@@ -122,14 +120,6 @@ impl crate::pipeline::Outcome {
                 name: self.name.clone(),
                 method: Some(self.method.name().to_string()),
                 cost: Some(self.cost.clone()),
-                phase: (self.form == crate::spec::OracleForm::Phase)
-                    .then(|| {
-                        self.lowered
-                            .register(crate::circuit::layout::OUTPUTS)
-                            .first()
-                            .copied()
-                    })
-                    .flatten(),
             },
         )
     }
@@ -169,16 +159,88 @@ struct Reg {
     size: u32,
 }
 
+/// Budgets of the reader, checked before the work they limit.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub struct ReadLimits {
+    /// Most gates the file may hold once whole-register statements are expanded.
+    pub max_gates: usize,
+    /// Most qubits the file may declare.
+    pub max_qubits: usize,
+}
+
+impl Default for ReadLimits {
+    fn default() -> Self {
+        ReadLimits {
+            max_gates: DEFAULT_MAX_GATES,
+            max_qubits: 1 << 20,
+        }
+    }
+}
+
+/// Default for [`ReadLimits::max_gates`]: 16,777,216 gates.
+pub const DEFAULT_MAX_GATES: usize = 1 << 24;
+
+/// Why a file was not read.
+#[derive(Clone, Debug, PartialEq, Eq, thiserror::Error)]
+pub enum ReadError {
+    /// The text is not a circuit this reader takes.
+    #[error("{0}")]
+    Malformed(LocatedError),
+    /// The file asks for more than a budget allows (nothing was built).
+    #[error("{file}: {what} is {value}, over the limit of {limit}")]
+    Limit {
+        /// The file.
+        file: String,
+        /// Which quantity.
+        what: &'static str,
+        /// Its value.
+        value: u64,
+        /// The limit in force.
+        limit: usize,
+        /// The budget.
+        kind: crate::limit::Limit,
+    },
+}
+
+impl From<LocatedError> for ReadError {
+    fn from(e: LocatedError) -> Self {
+        ReadError::Malformed(e)
+    }
+}
+
+impl ReadError {
+    /// The located error, when the text was malformed.
+    pub fn located(&self) -> Option<&LocatedError> {
+        match self {
+            ReadError::Malformed(e) => Some(e),
+            ReadError::Limit { .. } => None,
+        }
+    }
+}
+
+/// Reads an OpenQASM 2 file of `x`, `cx`, `CX` and `ccx` gates into a
+/// circuit, within the default [`ReadLimits`].
+pub fn read_qasm(path: &str, text: &str) -> Result<Circuit, ReadError> {
+    read_qasm_with(path, text, &ReadLimits::default())
+}
+
 /// Reads an OpenQASM 2 file of `x`, `cx`, `CX` and `ccx` gates into a circuit.
 ///
-/// `qreg`s become registers (a register named `anc` holds ancillae); `creg`,
-/// `measure` and `barrier` are read and ignored; a register operand without an
-/// index applies the gate across the register, as OpenQASM 2 defines. Any other
-/// statement is refused with its line and column.
-pub fn read_qasm(path: &str, text: &str) -> Result<Circuit, LocatedError> {
+/// `qreg`s become registers (a register named `anc` holds ancillae); `creg`
+/// declarations and `barrier`s are read (their operands must be declared);
+/// a register operand without an index applies the gate across the
+/// register, as OpenQASM 2 defines, and the expansion is counted against
+/// `limits` before it is made. A phase oracle's wrapper, `x q; h q;` before
+/// every gate and `h q; x q;` after them on one qubit, is read as the
+/// circuit's phase line ([`Circuit::phase`]); the verifier then checks that it
+/// is the line the spec names. Measurement, reset and classical control are
+/// refused with their line: the verifier proves unitary circuits of these
+/// gates and would not know what a measurement does to the rest.
+pub fn read_qasm_with(path: &str, text: &str, limits: &ReadLimits) -> Result<Circuit, ReadError> {
     let src = Source { path, text };
     let clean = strip_comments(text);
     let mut regs: Vec<Reg> = Vec::new();
+    let mut cregs: Vec<String> = Vec::new();
     let mut lines: Vec<LineInfo> = Vec::new();
     let mut gates: Vec<Gate> = Vec::new();
     // Positions (in `gates`) and lines of `h` statements, with their offsets.
@@ -194,7 +256,7 @@ pub fn read_qasm(path: &str, text: &str) -> Result<Circuit, LocatedError> {
                     break;
                 }
                 let at = clean.len() - rest.len();
-                return Err(src.error(at, "this statement has no closing ';'"));
+                return Err(src.error(at, "this statement has no closing ';'").into());
             }
         };
         let stmt_raw = &clean[start..end];
@@ -216,24 +278,37 @@ pub fn read_qasm(path: &str, text: &str) -> Result<Circuit, LocatedError> {
                 seen_version = true;
                 continue;
             }
-            return Err(src.error(at, "an OpenQASM 2 file starts with 'OPENQASM 2.0;'"));
+            return Err(src
+                .error(at, "an OpenQASM 2 file starts with 'OPENQASM 2.0;'")
+                .into());
         }
         match word {
             "include" => {
                 if rest.trim() != "\"qelib1.inc\"" {
-                    return Err(src.error(rest_at, "only \"qelib1.inc\" can be included"));
+                    return Err(src
+                        .error(rest_at, "only \"qelib1.inc\" can be included")
+                        .into());
                 }
             }
             "qreg" | "creg" => {
                 let (name, size) = parse_decl(&src, rest, rest_at)?;
+                if regs.iter().any(|r| r.name == name) || cregs.contains(&name) {
+                    return Err(src
+                        .error(rest_at, format!("register '{name}' is declared twice"))
+                        .into());
+                }
                 if word == "creg" {
+                    cregs.push(name);
                     continue;
                 }
-                if regs.iter().any(|r| r.name == name) {
-                    return Err(src.error(rest_at, format!("register '{name}' is declared twice")));
-                }
-                if lines.len() + size as usize > 1 << 20 {
-                    return Err(src.error(at, "more than 2^20 qubits declared"));
+                if lines.len() + size as usize > limits.max_qubits {
+                    return Err(ReadError::Limit {
+                        file: path.to_string(),
+                        what: "the number of qubits declared",
+                        value: (lines.len() + size as usize) as u64,
+                        limit: limits.max_qubits,
+                        kind: crate::limit::Limit::Qubits,
+                    });
                 }
                 let first = lines.len() as u32;
                 for i in 0..size {
@@ -250,12 +325,24 @@ pub fn read_qasm(path: &str, text: &str) -> Result<Circuit, LocatedError> {
                 }
                 regs.push(Reg { name, first, size });
             }
-            "barrier" | "measure" => {}
+            "barrier" => {
+                parse_operands(&src, &regs, rest, rest_at)?;
+            }
+            "measure" | "reset" | "if" => {
+                return Err(src
+                    .error(at, format!("'{word}' is not read: oraculum proves circuits of x, cx and ccx gates, and a {} in the middle of them is not something it can prove", match word {
+                        "measure" => "measurement",
+                        "reset" => "reset",
+                        _ => "classically controlled gate",
+                    }))
+                    .with_hint("measure after the oracle, in the circuit that uses it")
+                    .into());
+            }
             "h" => {
                 let ops = parse_operands(&src, &regs, rest, rest_at)?;
                 match ops.as_slice() {
                     [(line, None)] => hadamards.push((gates.len(), *line, at)),
-                    _ => return Err(src.error(rest_at, "'h' is read on one qubit")),
+                    _ => return Err(src.error(rest_at, "'h' is read on one qubit").into()),
                 }
             }
             "x" | "cx" | "CX" | "ccx" => {
@@ -266,16 +353,30 @@ pub fn read_qasm(path: &str, text: &str) -> Result<Circuit, LocatedError> {
                 };
                 let ops = parse_operands(&src, &regs, rest, rest_at)?;
                 if ops.len() != arity {
-                    return Err(src.error(
-                        rest_at,
-                        format!("'{word}' takes {arity} operand(s), found {}", ops.len()),
-                    ));
+                    return Err(src
+                        .error(
+                            rest_at,
+                            format!("'{word}' takes {arity} operand(s), found {}", ops.len()),
+                        )
+                        .into());
                 }
                 // A whole-register operand repeats the gate across the register.
                 let sizes: Vec<u32> = ops.iter().filter_map(|o| o.1).collect();
                 let reps = sizes.first().copied().unwrap_or(1);
                 if sizes.iter().any(|&s| s != reps) {
-                    return Err(src.error(rest_at, "whole-register operands differ in size"));
+                    return Err(src
+                        .error(rest_at, "whole-register operands differ in size")
+                        .into());
+                }
+                let total = gates.len() as u64 + reps as u64;
+                if total > limits.max_gates as u64 {
+                    return Err(ReadError::Limit {
+                        file: path.to_string(),
+                        what: "the number of gates",
+                        value: total,
+                        limit: limits.max_gates,
+                        kind: crate::limit::Limit::Gates,
+                    });
                 }
                 for r in 0..reps {
                     let q: Vec<u32> = ops
@@ -291,21 +392,27 @@ pub fn read_qasm(path: &str, text: &str) -> Result<Circuit, LocatedError> {
                 }
             }
             "" => {
-                return Err(src.error(
-                    at,
-                    format!("unexpected '{}'", stmt.chars().next().unwrap_or(' ')),
-                ));
+                return Err(src
+                    .error(
+                        at,
+                        format!("unexpected '{}'", stmt.chars().next().unwrap_or(' ')),
+                    )
+                    .into());
             }
             other => {
                 return Err(src
                     .error(at, format!("'{other}' is not read by oraculum"))
-                    .with_hint("oraculum reads qreg, creg, x, cx, CX, ccx, barrier and measure, and h around a phase oracle"));
+                    .with_hint("oraculum reads qreg, creg, x, cx, CX, ccx and barrier, and h around a phase oracle")
+                    .into());
             }
         }
     }
     if !seen_version {
-        return Err(src.error(0, "an OpenQASM 2 file starts with 'OPENQASM 2.0;'"));
+        return Err(src
+            .error(0, "an OpenQASM 2 file starts with 'OPENQASM 2.0;'")
+            .into());
     }
+    let mut phase = None;
     if let Some(&(_, _, at)) = hadamards.first() {
         // Only the wrapper of a phase oracle: x q; h q; ... h q; x q;
         let wrapped = match hadamards.as_slice() {
@@ -320,12 +427,16 @@ pub fn read_qasm(path: &str, text: &str) -> Result<Circuit, LocatedError> {
         if !wrapped {
             return Err(src
                 .error(at, "'h' is read only as the wrapper of a phase oracle")
-                .with_hint("x q; h q; at the start and h q; x q; at the end, on the same qubit"));
+                .with_hint("x q; h q; at the start and h q; x q; at the end, on the same qubit")
+                .into());
         }
+        phase = Some(Line(hadamards[0].1));
         gates = gates[1..gates.len() - 1].to_vec();
     }
-    Ok(Circuit::from_parts(lines, gates)
-        .expect("operands were resolved against declared registers"))
+    let mut c = Circuit::from_parts(lines, gates)
+        .expect("operands were resolved against declared registers");
+    c.set_phase(phase);
+    Ok(c)
 }
 
 fn parse_index(src: &Source, text: &str, at: usize) -> Result<(String, Option<u32>), LocatedError> {
@@ -406,7 +517,7 @@ mod tests {
 
     #[test]
     fn reads_what_it_writes_and_refuses_the_rest() {
-        let text = "OPENQASM 2.0;\ninclude \"qelib1.inc\"; // the standard library\nqreg x[2];\nqreg y[1];\ncreg c[1];\nccx x[0],x[1],y[0];\nCX x[0], y[0];\nx y;\nbarrier x;\nmeasure y[0] -> c[0];\n";
+        let text = "OPENQASM 2.0;\ninclude \"qelib1.inc\"; // the standard library\nqreg x[2];\nqreg y[1];\ncreg c[1];\nccx x[0],x[1],y[0];\nCX x[0], y[0];\nx y;\nbarrier x;\n";
         let c = read_qasm("t.qasm", text).unwrap();
         assert_eq!(c.width(), 3);
         assert_eq!(
@@ -417,11 +528,13 @@ mod tests {
         assert_eq!(read_qasm("again", &again).unwrap().gates(), c.gates());
 
         let e = read_qasm("t.qasm", "OPENQASM 2.0;\nqreg q[2];\nh q[0];\n").unwrap_err();
+        let e = e.located().unwrap();
         assert_eq!((e.location.line, e.location.column), (3, 1));
         let e = read_qasm("t.qasm", "OPENQASM 2.0;\nqreg q[2];\ncx q[0], q[5];\n").unwrap_err();
+        let e = e.located().unwrap();
         assert_eq!((e.location.line, e.location.column), (3, 10));
         let e = read_qasm("t.qasm", "OPENQASM 2.0;\nqreg q[2];\ncx q[1],q[1];\n").unwrap_err();
-        assert!(e.message().contains("same qubit"), "{e}");
+        assert!(e.to_string().contains("same qubit"), "{e}");
         assert!(read_qasm("t.qasm", "qreg q[2];").is_err());
         assert!(read_qasm("t.qasm", "OPENQASM 2.0;\nqreg q[2]").is_err());
     }

@@ -1,11 +1,12 @@
 //! One method through the whole job: synthesize, optimize, lower, measure, verify.
 
 use super::{BuildError, BuildOptions, Outcome, Timings, Verification};
+use crate::circuit::layout::OUTPUTS;
 use crate::circuit::{Circuit, Cost};
 use crate::lower::lower;
 use crate::opt::optimize;
 use crate::progress::Progress;
-use crate::spec::Spec;
+use crate::spec::{OracleForm, Spec};
 use crate::synth::{synthesize, Method};
 use crate::verify::verify_with_progress;
 use std::time::Instant;
@@ -33,7 +34,10 @@ pub fn build_one(
     let t0 = Instant::now();
     let synthesis = synthesize(spec, method, &opts.limits, progress)?;
     let t1 = Instant::now();
-    let (mct, lowered) = optimized(synthesis.circuit);
+    let (mct, mut lowered) = optimized(synthesis.circuit);
+    if spec.form == OracleForm::Phase {
+        lowered.set_phase(lowered.register(OUTPUTS).first().copied());
+    }
     let t2 = Instant::now();
     let cost = Cost::measure(&mct, &lowered);
     let verification = match &opts.verify {

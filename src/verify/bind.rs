@@ -1,9 +1,9 @@
 //! Binding a circuit's lines to a spec by register name: the free lines (inputs and targets) and the ancillae.
 
 use super::VerifyError;
-use crate::circuit::layout::ANCILLAE;
+use crate::circuit::layout::{ANCILLAE, OUTPUTS};
 use crate::circuit::Circuit;
-use crate::spec::Spec;
+use crate::spec::{OracleForm, Spec};
 
 pub(super) struct Binding {
     /// Circuit line of each free state bit.
@@ -54,4 +54,35 @@ pub(super) fn bind(circuit: &Circuit, expect: &[(&str, usize)]) -> Result<Bindin
 /// Number of free lines (inputs and targets) once the circuit is bound to the spec.
 pub fn free_lines(circuit: &Circuit, spec: &Spec) -> Result<u32, VerifyError> {
     Ok(bind(circuit, &spec.layout().sizes())?.free.len() as u32)
+}
+
+/// What differs between the oracle form the spec asks for and the form of
+/// the circuit: a phase oracle must be prepared and restored on the spec's
+/// output line (`y[0]`), an xor oracle on no line. `None` when they agree.
+pub(super) fn form_mismatch(circuit: &Circuit, spec: &Spec) -> Option<String> {
+    let name = |l: crate::circuit::Line| {
+        let info = &circuit.lines()[l.index()];
+        format!("{}[{}]", info.register, info.index)
+    };
+    let want = match spec.form {
+        OracleForm::Phase => circuit.register(OUTPUTS).first().copied(),
+        OracleForm::Xor => None,
+    };
+    if circuit.phase() == want {
+        return None;
+    }
+    match (spec.form, circuit.phase()) {
+        (OracleForm::Xor, None) => None,
+        (OracleForm::Xor, Some(got)) => Some(format!(
+            "the spec asks for an xor oracle; the circuit is wrapped as a phase oracle on {}",
+            name(got)
+        )),
+        (OracleForm::Phase, None) => Some(format!(
+            "the spec asks for a phase oracle on {OUTPUTS}[0]; the circuit has no phase wrapper"
+        )),
+        (OracleForm::Phase, Some(got)) => Some(format!(
+            "the spec asks for a phase oracle on {OUTPUTS}[0]; the circuit's phase wrapper is on {}",
+            name(got)
+        )),
+    }
 }

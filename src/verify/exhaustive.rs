@@ -28,6 +28,9 @@ pub(super) fn verify_words(
 ) -> Result<Verdict, VerifyError> {
     let layout = spec.layout().sizes();
     let binding = bind(circuit, &layout)?;
+    if let Some(problem) = super::bind::form_mismatch(circuit, spec) {
+        return Ok(Verdict::form_refuted(problem));
+    }
     let model = match &spec.body {
         SpecBody::Function(f) => {
             let mut roots = Vec::new();

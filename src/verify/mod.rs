@@ -22,7 +22,9 @@ mod verdict;
 
 pub use bind::free_lines;
 pub use sat::{circuits_equivalent, sat_equivalence, SatError, SatOutcome, SAT_MAX_TABLE_INPUTS};
-pub use shard::{fingerprint, merge_shards, verify_shard, ShardError, ShardResult, SHARD_FORMAT};
+pub use shard::{
+    fingerprint, merge_shards, verify_shard, ShardError, ShardResult, MAX_SHARDS, SHARD_FORMAT,
+};
 pub use verdict::{Counterexample, RegisterValue, Verdict};
 
 use crate::circuit::Circuit;
@@ -157,6 +159,9 @@ pub fn verify_with_progress(
     progress: &dyn Progress,
 ) -> Result<Verdict, VerifyError> {
     let free_bits = free_lines(circuit, spec)?;
+    if let Some(problem) = bind::form_mismatch(circuit, spec) {
+        return Ok(Verdict::form_refuted(problem));
+    }
     let fits = free_bits < 63 && (1u64 << free_bits) <= opts.max_states;
     let use_sat = match opts.route {
         Route::Sat => true,
@@ -209,6 +214,19 @@ pub fn verify_against(
         .filter(|(n, _)| n != crate::circuit::layout::ANCILLAE)
         .map(|(_, s)| *s as u32)
         .sum();
+    if a.phase().is_some() != b.phase().is_some()
+        || a.phase()
+            .map(|l| &a.lines()[l.index()])
+            .map(|i| (&i.register, i.index))
+            != b.phase()
+                .map(|l| &b.lines()[l.index()])
+                .map(|i| (&i.register, i.index))
+    {
+        return Ok(Verdict::form_refuted(
+            "the two circuits differ in oracle form: phase wrappers on different lines, or on one only"
+                .into(),
+        ));
+    }
     match circuits_equivalent(a, b, budget)? {
         SatOutcome::Equivalent => Ok(Verdict::Proven {
             by: "sat",

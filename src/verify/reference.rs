@@ -1,7 +1,7 @@
 //! What each line must hold after the circuit: the spec's tables, expressions, images and arithmetic, as the verifier reads them.
 
 use super::eval::Compiled;
-use crate::spec::{ArithOp, ArithSpec};
+use crate::spec::{ArithOp, ArithSpec, Spec, SpecBody};
 
 /// One output's reference.
 pub(super) enum Reference<'a> {
@@ -74,4 +74,36 @@ pub(super) fn arithmetic_reference(s: &ArithSpec, v: &[u64]) -> Option<Vec<u64>>
         ArithOp::Lookup => out[base + 1] ^= s.data[a as usize],
     }
     Some(out)
+}
+
+/// How many of the basis states `[first, end)` (numbered by the free lines,
+/// `bits` of them) lie inside the spec's domain: every state, but for
+/// `add_mod`, whose promise is `a, b < modulus`.
+pub(super) fn states_inside_domain(spec: &Spec, bits: u32, first: u64, end: u64) -> u64 {
+    let SpecBody::Arithmetic(s) = &spec.body else {
+        return end - first;
+    };
+    if s.op != ArithOp::AddMod {
+        return end - first;
+    }
+    let c = s.controlled as u32;
+    let w = s.width as u32;
+    debug_assert_eq!(bits, c + 2 * w);
+    let n = s.modulus.unwrap_or(2) as u128;
+    // States below x with a < n and b < n, for the layout ctrl, a, b.
+    let below = |x: u64| -> u128 {
+        let x = x as u128;
+        let low = 1u128 << c;
+        let (xl, t) = (x % low, x / low);
+        let (xa, xb) = (t % (1u128 << w), t >> w);
+        let mut count = xb.min(n) * n * low;
+        if xb < n {
+            count += xa.min(n) * low;
+            if xa < n {
+                count += xl;
+            }
+        }
+        count
+    };
+    (below(end) - below(first)) as u64
 }

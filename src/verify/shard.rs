@@ -1,24 +1,36 @@
-//! Sharded exhaustive verification: one slice of the state space per job, and a
-//! merge that accepts only a complete, consistent set of slices.
+//! Sharded exhaustive verification: one slice of the state space per job, and
+//! a merge that trusts nothing in the result files it can recompute.
+//!
+//! A shard file states its slice, its counts and its verdict. `merge` is given
+//! the circuit and spec again and recomputes everything it can: the files'
+//! fingerprints (SHA-256), the free lines, every shard's word range from
+//! `K/N`, every state count from that range and the op's domain, and each
+//! refutation, which it re-checks on its state. A set is proven only when
+//! every shard is there once, proven, and consistent with all of that.
 
 use super::exhaustive::verify_words;
+use super::reference::states_inside_domain;
 use super::{Counterexample, Verdict, VerifyError, VerifyOptions};
 use crate::circuit::Circuit;
 use crate::progress::Progress;
 use crate::spec::Spec;
 use serde::{Deserialize, Serialize};
+use sha2::{Digest, Sha256};
 
 /// The `format` field of every shard result file.
-pub const SHARD_FORMAT: &str = "oraculum-shard-1";
+pub const SHARD_FORMAT: &str = "oraculum-shard-2";
+
+/// Most shards a state space is split into.
+pub const MAX_SHARDS: u64 = 1 << 20;
 
 /// The result of one shard, as written to its file.
 #[derive(Clone, Debug, PartialEq, Eq, Serialize, Deserialize)]
 pub struct ShardResult {
     /// Always [`SHARD_FORMAT`].
     pub format: String,
-    /// FNV-1a hash of the circuit file's bytes.
+    /// SHA-256 of the circuit file's bytes, in hex.
     pub circuit_hash: String,
-    /// FNV-1a hash of the spec file's bytes.
+    /// SHA-256 of the spec file's bytes, in hex.
     pub spec_hash: String,
     /// This shard's number, from 0.
     pub shard: u64,
@@ -40,14 +52,25 @@ pub struct ShardResult {
     pub counterexample: Option<Counterexample>,
 }
 
-/// FNV-1a, 64 bits, as hex: a fingerprint for matching shard files to inputs.
+/// SHA-256 of `bytes`, as hex: a fingerprint for matching shard files to inputs.
 pub fn fingerprint(bytes: &[u8]) -> String {
-    let mut h: u64 = 0xcbf2_9ce4_8422_2325;
-    for &b in bytes {
-        h ^= b as u64;
-        h = h.wrapping_mul(0x0000_0100_0000_01b3);
-    }
-    format!("{h:016x}")
+    Sha256::digest(bytes)
+        .iter()
+        .map(|b| format!("{b:02x}"))
+        .collect()
+}
+
+/// The words `[first, end)` of shard `k` of `of` of a space of `2^bits` states.
+fn slice(bits: u32, k: u64, of: u64) -> (u64, u64) {
+    let words = (1u64 << bits).div_ceil(64);
+    let first = (words as u128 * k as u128 / of as u128) as u64;
+    let end = (words as u128 * (k + 1) as u128 / of as u128) as u64;
+    (first, end)
+}
+
+/// The states in words `[first, end)` of a space of `2^bits` states.
+fn span(bits: u32, first: u64, end: u64) -> u64 {
+    (end.saturating_mul(64)).min(1u64 << bits) - (first.saturating_mul(64)).min(1u64 << bits)
 }
 
 /// Checks slice `shard` of `of` equal slices of the state space exhaustively.
@@ -71,9 +94,7 @@ pub fn verify_shard(
             limit: opts.max_states,
         });
     }
-    let words = (1u64 << bits).div_ceil(64);
-    let first = (words as u128 * shard as u128 / of as u128) as u64;
-    let end = (words as u128 * (shard + 1) as u128 / of as u128) as u64;
+    let (first, end) = slice(bits, shard, of);
     let v = verify_words(circuit, spec, opts, progress, first, end)?;
     let (proven, states, outside_domain, counterexample) = match v {
         Verdict::Proven {
@@ -100,12 +121,13 @@ pub fn verify_shard(
 }
 
 /// Why a set of shard results cannot be merged.
-#[derive(Debug, Clone, PartialEq, Eq, thiserror::Error)]
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
 pub enum ShardError {
     /// No results given.
     #[error("no shard results to merge")]
     Empty,
-    /// Results of different circuits, specs or splits.
+    /// Results of different circuits, specs or splits, or results that
+    /// contradict what the merge recomputes.
     #[error("shard results do not belong together: {0}")]
     Mismatch(String),
     /// Some shards are missing.
@@ -114,40 +136,117 @@ pub enum ShardError {
     /// A shard appears twice.
     #[error("shard {0} appears more than once")]
     Duplicate(u64),
+    /// The circuit does not bind to the spec.
+    #[error(transparent)]
+    Verify(#[from] VerifyError),
 }
 
-/// Combines the results of all `of` shards into one verdict. Refuses a set with
-/// gaps, overlaps, or results of other inputs.
-pub fn merge_shards(results: &[ShardResult]) -> Result<Verdict, ShardError> {
+/// Combines the results of all `of` shards of `circuit` against `spec` (the
+/// files whose bytes are `circuit_bytes` and `spec_bytes`) into one verdict.
+/// Refuses a set with gaps, overlaps, results of other inputs, or any field
+/// that differs from what it recomputes.
+pub fn merge_shards(
+    results: &[ShardResult],
+    circuit: &Circuit,
+    spec: &Spec,
+    circuit_bytes: &[u8],
+    spec_bytes: &[u8],
+) -> Result<Verdict, ShardError> {
+    let mismatch = |m: String| Err(ShardError::Mismatch(m));
     let first = results.first().ok_or(ShardError::Empty)?;
+    let of = first.of;
+    if of == 0 || of > MAX_SHARDS {
+        return mismatch(format!("a split into {of} shards (1 to {MAX_SHARDS})"));
+    }
+    let circuit_hash = fingerprint(circuit_bytes);
+    let spec_hash = fingerprint(spec_bytes);
+    let bits = super::free_lines(circuit, spec)?;
+    if bits >= 63 {
+        return mismatch(format!(
+            "2^{bits} basis states cannot be split into shard files"
+        ));
+    }
     for r in results {
         if r.format != SHARD_FORMAT {
-            return Err(ShardError::Mismatch(format!(
-                "unknown format '{}'",
-                r.format
-            )));
+            return mismatch(format!("unknown format '{}'", r.format));
         }
-        if (&r.circuit_hash, &r.spec_hash, r.of, r.free_bits)
-            != (
-                &first.circuit_hash,
-                &first.spec_hash,
-                first.of,
-                first.free_bits,
-            )
-        {
-            return Err(ShardError::Mismatch(format!(
-                "shard {} was made from another circuit, spec or split than shard {}",
-                r.shard, first.shard
-            )));
+        if r.circuit_hash != circuit_hash || r.spec_hash != spec_hash {
+            return mismatch(format!(
+                "shard {} was made from another circuit or spec than the ones given",
+                r.shard
+            ));
         }
-        if r.shard >= r.of {
-            return Err(ShardError::Mismatch(format!(
-                "shard {} of {}",
+        if r.of != of || r.shard >= of {
+            return mismatch(format!(
+                "shard {} of {} in a split into {of}",
                 r.shard, r.of
-            )));
+            ));
+        }
+        if r.free_bits != bits {
+            return mismatch(format!(
+                "shard {} says {} free lines; the circuit bound to the spec has {bits}",
+                r.shard, r.free_bits
+            ));
+        }
+        let (lo, hi) = slice(bits, r.shard, of);
+        if (r.first_word, r.end_word) != (lo, hi) {
+            return mismatch(format!(
+                "shard {} covers words {}..{}; shard {} of {of} is words {lo}..{hi}",
+                r.shard, r.first_word, r.end_word, r.shard
+            ));
+        }
+        match (r.proven, &r.counterexample) {
+            (true, None) => {
+                let all = span(bits, lo, hi);
+                let inside = states_inside_domain(spec, bits, lo * 64, (hi * 64).min(1 << bits));
+                if r.states != inside || r.outside_domain != all - inside {
+                    return mismatch(format!(
+                        "shard {} says {} states checked and {} outside the domain; its slice has {inside} and {}",
+                        r.shard,
+                        r.states,
+                        r.outside_domain,
+                        all - inside
+                    ));
+                }
+            }
+            (false, Some(c)) => {
+                // A refutation is re-checked on its own state.
+                let state = c.state.filter(|&s| s >= lo * 64 && s < hi * 64);
+                let Some(state) = state else {
+                    return mismatch(format!(
+                        "shard {} is refuted on a state outside its slice",
+                        r.shard
+                    ));
+                };
+                let again = verify_words(
+                    circuit,
+                    spec,
+                    &VerifyOptions::default(),
+                    &(),
+                    state / 64,
+                    state / 64 + 1,
+                )?;
+                if !matches!(again, Verdict::Refuted { .. }) {
+                    return mismatch(format!(
+                        "shard {} is refuted on state {state}, which checks out",
+                        r.shard
+                    ));
+                }
+            }
+            (true, Some(_)) => {
+                return mismatch(format!(
+                    "shard {} is proven and carries a counterexample",
+                    r.shard
+                ))
+            }
+            (false, None) => {
+                return mismatch(format!(
+                    "shard {} is refuted without a counterexample",
+                    r.shard
+                ))
+            }
         }
     }
-    let of = first.of;
     let mut seen = vec![false; of as usize];
     for r in results {
         if seen[r.shard as usize] {
@@ -161,36 +260,15 @@ pub fn merge_shards(results: &[ShardResult]) -> Result<Verdict, ShardError> {
     }
     let mut sorted: Vec<&ShardResult> = results.iter().collect();
     sorted.sort_by_key(|r| r.shard);
-    let words = (1u64 << first.free_bits).div_ceil(64);
-    let mut at = 0;
-    for r in &sorted {
-        if r.first_word != at || r.end_word < r.first_word {
-            return Err(ShardError::Mismatch(format!(
-                "shard {} covers words {}..{}, expected to start at {at}",
-                r.shard, r.first_word, r.end_word
-            )));
-        }
-        at = r.end_word;
-    }
-    if at != words {
-        return Err(ShardError::Mismatch(format!(
-            "the shards cover {at} of {words} words"
-        )));
-    }
     if let Some(r) = sorted.iter().find(|r| !r.proven) {
-        let c = r.counterexample.clone().ok_or_else(|| {
-            ShardError::Mismatch(format!(
-                "shard {} is refuted without a counterexample",
-                r.shard
-            ))
-        })?;
+        let c = r.counterexample.clone().expect("checked above");
         return Ok(Verdict::Refuted {
             counterexample: Box::new(c),
         });
     }
     Ok(Verdict::Proven {
         by: "exhaustive",
-        free_bits: first.free_bits,
+        free_bits: bits,
         states: sorted.iter().map(|r| r.states).sum(),
         outside_domain: sorted.iter().map(|r| r.outside_domain).sum(),
     })

@@ -61,6 +61,9 @@ pub struct Counterexample {
 
 impl fmt::Display for Counterexample {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        if self.state.is_none() && self.input.is_empty() && self.actual.is_empty() {
+            return write!(f, "{}", self.problem);
+        }
         let join = |v: &[RegisterValue]| {
             v.iter()
                 .map(|r| r.to_string())
@@ -99,6 +102,19 @@ pub enum Verdict {
 }
 
 impl Verdict {
+    /// A refutation that is about the oracle form, not a basis state.
+    pub(super) fn form_refuted(problem: String) -> Verdict {
+        Verdict::Refuted {
+            counterexample: Box::new(Counterexample {
+                state: None,
+                input: Vec::new(),
+                expected: Vec::new(),
+                actual: Vec::new(),
+                problem,
+            }),
+        }
+    }
+
     /// One line for people: how much was proven, or that it was refuted.
     pub fn summary(&self) -> String {
         match self {

@@ -5,8 +5,8 @@ use crate::cli::{code, Failure};
 use oraculum::Cost;
 use std::path::Path;
 
-pub fn run(circuit: &Path, json: bool) -> Result<i32, Failure> {
-    let c = load_circuit(circuit)?;
+pub fn run(circuit: &Path, json: bool, max_gates: usize) -> Result<i32, Failure> {
+    let c = load_circuit(circuit, max_gates)?;
     if c.max_controls() > 2 {
         return Err(Failure::bad(
             "the circuit has gates with more than two controls",

@@ -14,10 +14,11 @@ pub fn run(
     lowered: bool,
     method: Option<Method>,
     json: bool,
+    max_gates: usize,
 ) -> Result<i32, Failure> {
     let is_qasm = input.extension().is_some_and(|e| e == "qasm");
     let (circuit, title) = if is_qasm {
-        (load_circuit(input)?, input.display().to_string())
+        (load_circuit(input, max_gates)?, input.display().to_string())
     } else {
         let spec = load_spec(input)?;
         let out = build(

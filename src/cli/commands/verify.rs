@@ -1,11 +1,11 @@
 //! `oraculum verify` (against a spec, a shard of it, or another circuit) and `oraculum merge`.
 
-use crate::cli::files::{load_circuit, load_spec, read_text, write_atomic};
+use crate::cli::files::{load_circuit, load_spec, parse_circuit, read_text, write_atomic};
 use crate::cli::render::{verify_failure, Bars};
 use crate::cli::{code, Failure};
 use oraculum::export::json::VerifyReport;
 use oraculum::verify::{merge_shards, verify_against, verify_shard, ShardResult};
-use oraculum::{parse_spec, read_qasm, verify_with_progress, Verdict, VerifyOptions};
+use oraculum::{parse_spec, verify_with_progress, Verdict, VerifyOptions};
 use std::path::{Path, PathBuf};
 use std::time::Instant;
 
@@ -25,8 +25,14 @@ fn print_json<T: serde::Serialize>(value: &T) {
 }
 
 /// `verify CIRCUIT --spec SPEC`.
-pub fn file(circuit: &Path, spec: &Path, json: bool, opts: &VerifyOptions) -> Result<i32, Failure> {
-    let c = load_circuit(circuit)?;
+pub fn file(
+    circuit: &Path,
+    spec: &Path,
+    json: bool,
+    opts: &VerifyOptions,
+    max_gates: usize,
+) -> Result<i32, Failure> {
+    let c = load_circuit(circuit, max_gates)?;
     let s = load_spec(spec)?;
     let t = Instant::now();
     let verdict = verify_with_progress(&c, &s, opts, &Bars::new(json))
@@ -64,9 +70,10 @@ pub fn against(
     other: &Path,
     json: bool,
     opts: &VerifyOptions,
+    max_gates: usize,
 ) -> Result<i32, Failure> {
-    let a = load_circuit(circuit)?;
-    let b = load_circuit(other)?;
+    let a = load_circuit(circuit, max_gates)?;
+    let b = load_circuit(other, max_gates)?;
     let verdict = verify_against(&a, &b, opts).map_err(|e| verify_failure(circuit, e))?;
     if json {
         print_json(&VerifyReport {
@@ -116,11 +123,12 @@ pub fn shard(
     shard: &str,
     output: Option<&Path>,
     opts: &VerifyOptions,
+    max_gates: usize,
 ) -> Result<i32, Failure> {
     let (k, n) = parse_shard(shard)?;
     let circuit_text = read_text(circuit)?;
     let spec_text = read_text(spec)?;
-    let c = read_qasm(&circuit.display().to_string(), &circuit_text)?;
+    let c = parse_circuit(circuit, &circuit_text, max_gates)?;
     let s = parse_spec(&spec.display().to_string(), &spec_text)?;
     let r = verify_shard(
         &c,
@@ -149,8 +157,12 @@ pub fn shard(
     Ok(if r.proven { code::DONE } else { code::REFUTED })
 }
 
-/// `merge RESULT...`.
-pub fn merge(paths: &[PathBuf], json: bool) -> Result<i32, Failure> {
+/// `merge RESULT... --circuit C --spec S`.
+pub fn merge(paths: &[PathBuf], circuit: &Path, spec: &Path, json: bool) -> Result<i32, Failure> {
+    let circuit_text = read_text(circuit)?;
+    let spec_text = read_text(spec)?;
+    let c = parse_circuit(circuit, &circuit_text, oraculum::export::DEFAULT_MAX_GATES)?;
+    let s = parse_spec(&spec.display().to_string(), &spec_text)?;
     let mut results = Vec::new();
     for p in paths {
         let text = read_text(p)?;
@@ -164,7 +176,14 @@ pub fn merge(paths: &[PathBuf], json: bool) -> Result<i32, Failure> {
         })?;
         results.push(r);
     }
-    let v = merge_shards(&results).map_err(|e| Failure::bad(e.to_string()))?;
+    let v = merge_shards(
+        &results,
+        &c,
+        &s,
+        circuit_text.as_bytes(),
+        spec_text.as_bytes(),
+    )
+    .map_err(|e| Failure::bad(e.to_string()))?;
     if json {
         print_json(&v);
     } else {
