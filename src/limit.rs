@@ -19,6 +19,8 @@ pub enum Limit {
     States,
     /// Seconds the SAT verifier may take.
     SatSeconds,
+    /// Clauses of a SAT encoding of synthesis.
+    Clauses,
 }
 
 /// Where a search stopped short of its goal, and what it proved on the way.

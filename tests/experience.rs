@@ -129,7 +129,15 @@ fn every_command_speaks_json() {
         ],
     );
     assert_eq!(o.status.code(), Some(0));
-    let v = json(&["merge", "s.json", "--json"]);
+    let v = json(&[
+        "merge",
+        "--circuit",
+        "g.qasm",
+        "--spec",
+        "specs/greenhouse.toml",
+        "s.json",
+        "--json",
+    ]);
     assert_eq!(v["verdict"], "proven");
 }
 

@@ -36,12 +36,8 @@ fn rows() -> Vec<String> {
         let spec = parse_spec(&name, &text).unwrap();
         for method in std::iter::once(None).chain(Method::all().map(Some)) {
             let method_name = method.map_or("auto", Method::name);
-            // esop-exact stops at a time budget; the 4-line exact search
-            // breaks ties by thread timing today (lamp-cycle is its one
-            // demo): they join once results are reproducible.
-            let timed = method == Some(Method::EsopExact)
-                || (name == "lamp-cycle.toml" && matches!(method, Some(Method::Exact) | None));
-            if timed {
+            // esop-exact stops at a time budget.
+            if method == Some(Method::EsopExact) {
                 continue;
             }
             let opts = BuildOptions {

@@ -28,7 +28,7 @@ fn small() -> BuildOptions {
             max_table_inputs: 10,
             max_gates: 5_000,
             exact_seconds: 0.2,
-            max_qubits: None,
+            ..SynthLimits::default()
         },
         verify: Some(VerifyOptions {
             max_states: 1 << 14,

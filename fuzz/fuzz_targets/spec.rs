@@ -9,7 +9,7 @@ fuzz_target!(|data: &[u8]| {
     if let Ok(spec) = parse_spec("fuzz.toml", text) {
         let opts = BuildOptions {
             method: None,
-            limits: SynthLimits { max_table_inputs: 8, max_gates: 2_000, exact_seconds: 0.05, max_qubits: None },
+            limits: SynthLimits { max_table_inputs: 8, max_gates: 2_000, exact_seconds: 0.05, ..SynthLimits::default() },
             verify: Some(VerifyOptions { max_states: 1 << 12, sat_seconds: 0.2, ..VerifyOptions::default() }),
         };
         let _ = oraculum::build(&spec, &opts);

@@ -211,6 +211,9 @@ pub struct LimitArgs {
     /// Most qubits the circuit may use, ancillae included; bennett recomputes to fit.
     #[arg(long)]
     pub max_qubits: Option<usize>,
+    /// Most clauses a SAT encoding of synthesis (pebbling, esop-exact) may have.
+    #[arg(long, default_value_t = SynthLimits::default().max_clauses)]
+    pub max_clauses: usize,
 }
 
 impl LimitArgs {
@@ -223,6 +226,7 @@ impl LimitArgs {
                 max_gates: self.max_gates,
                 exact_seconds: self.exact_seconds,
                 max_qubits: self.max_qubits,
+                max_clauses: self.max_clauses,
             },
             verify: verify.then_some(VerifyOptions {
                 max_states: self.max_states,

@@ -5,6 +5,7 @@ use oraculum::export::{read_qasm_with, ReadError, ReadLimits};
 use oraculum::{parse_spec, Circuit, Spec};
 use std::io::Write;
 use std::path::{Path, PathBuf};
+use std::sync::Mutex;
 
 /// The folder of the exact tables: `$ORACULUM_CACHE`, else the user's cache
 /// folder (`$XDG_CACHE_HOME` or `~/.cache` on Linux) with `oraculum` in it,
@@ -50,8 +51,51 @@ pub fn parse_circuit(path: &Path, text: &str, max_gates: usize) -> Result<Circui
     })
 }
 
-/// Writes `contents` to a temporary file beside `path`, then renames it into place.
+/// Temporary files being written, removed by the signal handler when the
+/// run is interrupted (SIGKILL cannot be caught: a stray `.oraculum-*` file
+/// may then remain beside the output).
+static PENDING: Mutex<Vec<PathBuf>> = Mutex::new(Vec::new());
+
+/// Removes the temporary files of an interrupted run and exits with the
+/// conventional code of a death by signal. Installed once at start-up.
+pub fn clean_up_on_signal() {
+    let _ = ctrlc::set_handler(|| {
+        let pending = PENDING.lock().unwrap_or_else(|e| e.into_inner());
+        for p in pending.iter() {
+            let _ = std::fs::remove_file(p);
+        }
+        std::process::exit(130);
+    });
+}
+
+fn pending(path: &Path, add: bool) {
+    let mut list = PENDING.lock().unwrap_or_else(|e| e.into_inner());
+    if add {
+        list.push(path.to_path_buf());
+    } else {
+        list.retain(|p| p != path);
+    }
+}
+
+/// Writes `contents` to `path`, never destroying what is there:
+///
+/// - `-` is standard output;
+/// - a symbolic link is followed and its target replaced (the link stays);
+/// - a device, FIFO or socket is written directly, never replaced;
+/// - a regular file is replaced atomically by a temporary file in its own
+///   folder, renamed over it, with the old file's permission bits;
+/// - a path that is one of `protect` (the run's inputs) is refused.
+///
+/// The temporary file is removed on every error and on SIGINT and SIGTERM.
 pub fn write_atomic(path: &Path, contents: &str, protect: &[&Path]) -> Result<(), Failure> {
+    let fail = |e: std::io::Error| Failure::bad(format!("{}: cannot write: {e}", path.display()));
+    if path == Path::new("-") {
+        let mut out = std::io::stdout().lock();
+        return out
+            .write_all(contents.as_bytes())
+            .and_then(|_| out.flush())
+            .map_err(fail);
+    }
     for p in protect {
         if let (Ok(a), Ok(b)) = (path.canonicalize(), p.canonicalize()) {
             if a == b {
@@ -62,22 +106,64 @@ pub fn write_atomic(path: &Path, contents: &str, protect: &[&Path]) -> Result<()
             }
         }
     }
-    let name = path
-        .file_name()
-        .ok_or_else(|| Failure::bad(format!("{}: not a file name", path.display())))?;
-    let tmp = path.with_file_name(format!(
-        ".{}.tmp-{}",
-        name.to_string_lossy(),
-        std::process::id()
-    ));
-    let result = std::fs::File::create(&tmp)
-        .and_then(|mut f| {
-            f.write_all(contents.as_bytes())?;
-            f.sync_all()
-        })
-        .and_then(|_| std::fs::rename(&tmp, path));
-    result.map_err(|e| {
-        let _ = std::fs::remove_file(&tmp);
-        Failure::bad(format!("{}: cannot write: {e}", path.display()))
-    })
+    let target = resolve_links(path).map_err(fail)?;
+    let permissions = match std::fs::metadata(&target) {
+        Ok(m) if m.is_dir() => {
+            return Err(Failure::bad(format!("{}: is a folder", path.display())))
+        }
+        Ok(m) if !m.is_file() => {
+            // A device, FIFO or socket: write into it, never replace it.
+            let mut f = std::fs::OpenOptions::new()
+                .write(true)
+                .open(&target)
+                .map_err(fail)?;
+            return f.write_all(contents.as_bytes()).map_err(fail);
+        }
+        Ok(m) => Some(m.permissions()),
+        Err(e) if e.kind() == std::io::ErrorKind::NotFound => None,
+        Err(e) => return Err(fail(e)),
+    };
+    let dir = match target.parent() {
+        Some(d) if !d.as_os_str().is_empty() => d.to_path_buf(),
+        _ => PathBuf::from("."),
+    };
+    let mut tmp = tempfile::Builder::new()
+        .prefix(".oraculum-")
+        .tempfile_in(&dir)
+        .map_err(fail)?;
+    pending(tmp.path(), true);
+    let written = tmp
+        .write_all(contents.as_bytes())
+        .and_then(|_| tmp.as_file().sync_all())
+        .and_then(|_| match &permissions {
+            Some(p) => std::fs::set_permissions(tmp.path(), p.clone()),
+            None => Ok(()),
+        });
+    let tmp_path = tmp.path().to_path_buf();
+    let result = match written {
+        Ok(()) => tmp.persist(&target).map(|_| ()).map_err(|e| fail(e.error)),
+        // Dropping the temporary file removes it.
+        Err(e) => Err(fail(e)),
+    };
+    pending(&tmp_path, false);
+    result
+}
+
+/// `path` with every symbolic link along its last component followed (a
+/// dangling link gives the path it points to, which is then created).
+fn resolve_links(path: &Path) -> std::io::Result<PathBuf> {
+    let mut p = path.to_path_buf();
+    for _ in 0..40 {
+        match std::fs::symlink_metadata(&p) {
+            Ok(m) if m.file_type().is_symlink() => {
+                let to = std::fs::read_link(&p)?;
+                p = match p.parent() {
+                    Some(dir) if to.is_relative() => dir.join(to),
+                    _ => to,
+                };
+            }
+            _ => return Ok(p),
+        }
+    }
+    Err(std::io::Error::other("too many levels of symbolic links"))
 }

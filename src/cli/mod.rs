@@ -1,5 +1,26 @@
 //! Command-line front end: arguments, files, printing and exit codes. No circuit logic lives here.
 
+/// Prints to standard output; a closed pipe (`oraculum ... | head -1`) ends
+/// the run quietly with exit 0 instead of a panic.
+macro_rules! outln {
+    ($($t:tt)*) => { $crate::cli::emit(format_args!($($t)*), true, false) };
+}
+
+/// [`outln!`] without the line break.
+macro_rules! out {
+    ($($t:tt)*) => { $crate::cli::emit(format_args!($($t)*), false, false) };
+}
+
+/// Prints to standard error, ignoring a closed stream.
+macro_rules! errln {
+    ($($t:tt)*) => { $crate::cli::emit(format_args!($($t)*), true, true) };
+}
+
+/// [`errln!`] without the line break.
+macro_rules! err {
+    ($($t:tt)*) => { $crate::cli::emit(format_args!($($t)*), false, true) };
+}
+
 mod args;
 mod commands;
 mod files;
@@ -20,6 +41,26 @@ pub mod code {
     pub const BAD_INPUT: i32 = 2;
     /// A resource limit refused the job.
     pub const LIMIT: i32 = 3;
+}
+
+/// Writes to standard output or error. Output that cannot be written (the
+/// reader went away) ends the run with exit 0: whatever it asked for was
+/// either written to files already or is no longer wanted.
+pub fn emit(args: std::fmt::Arguments, newline: bool, to_stderr: bool) {
+    use std::io::Write;
+    let result = if to_stderr {
+        let mut e = std::io::stderr().lock();
+        e.write_fmt(args)
+            .and_then(|_| if newline { e.write_all(b"\n") } else { Ok(()) })
+    } else {
+        let mut o = std::io::stdout().lock();
+        o.write_fmt(args)
+            .and_then(|_| if newline { o.write_all(b"\n") } else { Ok(()) })
+            .and_then(|_| o.flush())
+    };
+    if result.is_err() && !to_stderr {
+        std::process::exit(code::DONE);
+    }
 }
 
 /// A reason to stop, with its exit code.
@@ -74,13 +115,14 @@ pub fn run() -> i32 {
     // The exact tables live in the user's cache folder; the library itself
     // reads no environment and writes no file.
     let _ = Tables::stored(files::cache_dir()).install();
+    files::clean_up_on_signal();
     match dispatch(cli.command) {
         Ok(c) => c,
         Err(f) => {
             if f.rendered {
-                eprintln!("{}", f.message);
+                errln!("{}", f.message);
             } else {
-                eprintln!("error: {}", f.message);
+                errln!("error: {}", f.message);
             }
             f.code
         }

@@ -60,6 +60,7 @@ pub fn flag(limit: Limit, context: Context) -> &'static str {
         (Limit::SearchSeconds, _) => "--exact-seconds",
         (Limit::States, _) => "--max-states",
         (Limit::SatSeconds, _) => "--sat-seconds",
+        (Limit::Clauses, _) => "--max-clauses",
     }
 }
 
@@ -82,6 +83,7 @@ pub fn build_failure(e: BuildError) -> Failure {
             format!("; raise it with {}", flag(*kind, Context::Build))
         }
         BuildError::Synth(SynthError::Budget { .. }) => " (--max-qubits)".into(),
+        BuildError::Synth(SynthError::OutOfTime { .. }) => "; raise it with --exact-seconds".into(),
         BuildError::Verify(v) => verify_advice(v, Context::Build),
         _ => String::new(),
     };

@@ -12,11 +12,24 @@ fn label(c: &Circuit, i: usize) -> String {
     let l = &c.lines()[i];
     let name = format!("{}[{}]", l.register, l.index);
     let auto = format!("{}{}", l.register, l.index);
-    if l.label.is_empty() || l.label == name || l.label == auto {
+    let full = if l.label.is_empty() || l.label == name || l.label == auto {
         name
     } else {
         format!("{name} {}", l.label)
+    };
+    shorten(full)
+}
+
+/// Longest label drawn, in characters; longer ones end in an ellipsis.
+const MAX_LABEL: usize = 40;
+
+fn shorten(s: String) -> String {
+    if s.chars().count() <= MAX_LABEL {
+        return s;
     }
+    let mut cut: String = s.chars().take(MAX_LABEL - 1).collect();
+    cut.push('…');
+    cut
 }
 
 /// Lines in drawing order: data lines first, ancillae last.

@@ -154,9 +154,20 @@ fn strip_comments(text: &str) -> String {
 }
 
 struct Reg {
-    name: String,
     first: u32,
     size: u32,
+}
+
+/// The declared quantum registers, found by name in constant time.
+#[derive(Default)]
+struct Regs {
+    by_name: std::collections::HashMap<String, Reg>,
+}
+
+impl Regs {
+    fn find(&self, name: &str) -> Option<&Reg> {
+        self.by_name.get(name)
+    }
 }
 
 /// Budgets of the reader, checked before the work they limit.
@@ -239,8 +250,8 @@ pub fn read_qasm(path: &str, text: &str) -> Result<Circuit, ReadError> {
 pub fn read_qasm_with(path: &str, text: &str, limits: &ReadLimits) -> Result<Circuit, ReadError> {
     let src = Source { path, text };
     let clean = strip_comments(text);
-    let mut regs: Vec<Reg> = Vec::new();
-    let mut cregs: Vec<String> = Vec::new();
+    let mut regs = Regs::default();
+    let mut cregs: std::collections::HashSet<String> = Default::default();
     let mut lines: Vec<LineInfo> = Vec::new();
     let mut gates: Vec<Gate> = Vec::new();
     // Positions (in `gates`) and lines of `h` statements, with their offsets.
@@ -292,13 +303,13 @@ pub fn read_qasm_with(path: &str, text: &str, limits: &ReadLimits) -> Result<Cir
             }
             "qreg" | "creg" => {
                 let (name, size) = parse_decl(&src, rest, rest_at)?;
-                if regs.iter().any(|r| r.name == name) || cregs.contains(&name) {
+                if regs.find(&name).is_some() || cregs.contains(&name) {
                     return Err(src
                         .error(rest_at, format!("register '{name}' is declared twice"))
                         .into());
                 }
                 if word == "creg" {
-                    cregs.push(name);
+                    cregs.insert(name);
                     continue;
                 }
                 if lines.len() + size as usize > limits.max_qubits {
@@ -323,7 +334,7 @@ pub fn read_qasm_with(path: &str, text: &str, limits: &ReadLimits) -> Result<Cir
                         label: format!("{name}[{i}]"),
                     });
                 }
-                regs.push(Reg { name, first, size });
+                regs.by_name.insert(name, Reg { first, size });
             }
             "barrier" => {
                 parse_operands(&src, &regs, rest, rest_at)?;
@@ -479,7 +490,7 @@ fn parse_decl(src: &Source, text: &str, at: usize) -> Result<(String, u32), Loca
 /// Operands as (first line, Some(size) for a whole register).
 fn parse_operands(
     src: &Source,
-    regs: &[Reg],
+    regs: &Regs,
     text: &str,
     at: usize,
 ) -> Result<Vec<(u32, Option<u32>)>, LocatedError> {
@@ -491,8 +502,7 @@ fn parse_operands(
         let (name, index) = parse_index(src, part, part_at)?;
         let lead = part_at + (part.len() - part.trim_start().len());
         let reg = regs
-            .iter()
-            .find(|r| r.name == name)
+            .find(&name)
             .ok_or_else(|| src.error(lead, format!("register '{name}' is not declared")))?;
         match index {
             Some(i) if i >= reg.size => {

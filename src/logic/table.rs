@@ -97,54 +97,46 @@ impl TruthTable {
             ));
         };
         let size = 1usize << vars;
-        let digits: Vec<(usize, u32)> = text[body_start..]
-            .char_indices()
-            .filter(|(_, c)| *c != '_')
-            .map(|(i, c)| (i + body_start, c as u32))
-            .collect();
+        let body = &text[body_start..];
+        let kind = if radix_bits == 4 { "hex" } else { "binary" };
+        // First pass: every digit valid, and as many as the table needs,
+        // before anything the size of the table is allocated.
+        let mut count = 0usize;
+        for (i, c) in body.char_indices() {
+            if c == '_' {
+                continue;
+            }
+            if c.to_digit(1 << radix_bits).is_none() {
+                return Err(err(i + body_start, format!("'{c}' is not a {kind} digit")));
+            }
+            count += 1;
+        }
         let want = if radix_bits == 4 {
             (size / 4).max(1)
         } else {
             size
         };
-        let mut values = Vec::with_capacity(digits.len());
-        for &(at, c) in &digits {
-            let ch = char::from_u32(c).unwrap_or('?');
-            match ch.to_digit(1 << radix_bits) {
-                Some(v) => values.push(v),
-                None => {
-                    return Err(err(
-                        at,
-                        format!(
-                            "'{ch}' is not a {} digit",
-                            if radix_bits == 4 { "hex" } else { "binary" }
-                        ),
-                    ))
-                }
-            }
-        }
-        if values.len() != want {
+        if count != want {
             return Err(err(
                 0,
                 format!(
-                    "{} inputs need {} {} digits ({} table bits), found {}",
-                    vars,
-                    want,
-                    if radix_bits == 4 { "hex" } else { "binary" },
-                    size,
-                    values.len()
+                    "{vars} inputs need {want} {kind} digits ({size} table bits), found {count}"
                 ),
             ));
         }
+        // Second pass, from the last digit (the lowest bits) up.
         let mut t = TruthTable::zeros(vars);
-        for (k, v) in values.iter().rev().enumerate() {
+        let mut k = 0usize;
+        for (i, c) in body.char_indices().rev() {
+            let Some(v) = c.to_digit(1 << radix_bits) else {
+                continue;
+            };
             for b in 0..radix_bits as usize {
                 if (v >> b) & 1 == 1 {
                     let bit = k * radix_bits as usize + b;
                     if bit >= size {
-                        let (at, _) = digits[digits.len() - 1 - k];
                         return Err(err(
-                            at,
+                            i + body_start,
                             format!(
                                 "bit {bit} is set, but {vars} inputs give only {size} table bits"
                             ),
@@ -153,6 +145,7 @@ impl TruthTable {
                     t.bits.set(bit, true);
                 }
             }
+            k += 1;
         }
         Ok(t)
     }

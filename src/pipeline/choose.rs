@@ -139,6 +139,20 @@ fn rank(o: &Outcome, max_qubits: Option<usize>) -> (u8, u8, usize, usize, usize)
     )
 }
 
+/// Which failure says most when no method made a circuit: a budget of the
+/// verifier that stopped them, then a qubit budget, a search budget, another
+/// limit, and last a method that does not apply at all.
+fn telling(e: &BuildError) -> u8 {
+    match e {
+        BuildError::Verify(v) if v.is_limit() => 0,
+        BuildError::Synth(SynthError::Budget { .. }) => 1,
+        BuildError::Synth(SynthError::OutOfTime { .. }) => 2,
+        BuildError::Synth(SynthError::Limit { .. }) => 3,
+        BuildError::Verify(_) => 4,
+        BuildError::Synth(SynthError::NotApplicable { .. }) => 5,
+    }
+}
+
 fn pick_best(
     tried: Vec<(Method, Result<Outcome, BuildError>)>,
     max_qubits: Option<usize>,
@@ -163,7 +177,12 @@ fn pick_best(
                 }
             }
             Err(e) => {
-                first_error.get_or_insert(e);
+                if first_error
+                    .as_ref()
+                    .is_none_or(|f| telling(&e) < telling(f))
+                {
+                    first_error = Some(e);
+                }
             }
         }
     }

@@ -99,7 +99,12 @@ impl BuildError {
     pub fn is_limit(&self) -> bool {
         match self {
             BuildError::Synth(e) => {
-                matches!(e, SynthError::Limit { .. } | SynthError::Budget { .. })
+                matches!(
+                    e,
+                    SynthError::Limit { .. }
+                        | SynthError::Budget { .. }
+                        | SynthError::OutOfTime { .. }
+                )
             }
             BuildError::Verify(e) => e.is_limit(),
         }

@@ -168,6 +168,10 @@ pub struct ArithSpec {
 /// (each definition counts once, however often it is used).
 pub const MAX_EXPR_NODES: usize = 1_000_000;
 
+/// Most lines of a permutation spec: every method that takes permutations
+/// takes at most this many (`transform`, with its 2^16-row table).
+pub const MAX_PERMUTATION_LINES: usize = 16;
+
 /// Widest arithmetic register accepted.
 pub const MAX_ARITH_WIDTH: usize = 1 << 16;
 
@@ -315,12 +319,14 @@ impl Validator<'_> {
             .as_ref()
             .ok_or_else(|| self.err(&kind_span, missing("width")))?;
         let w = self.nonneg(width, "width")? as usize;
-        if w == 0 {
+        if w == 0 || w > MAX_PERMUTATION_LINES {
             return Err(self.err(
                 &width.span(),
                 SpecErrorKind::OutOfRange {
                     key: "width",
-                    rule: "must be at least 1".into(),
+                    rule: format!(
+                        "must be between 1 and {MAX_PERMUTATION_LINES} (the most lines a permutation method takes)"
+                    ),
                 },
             ));
         }

@@ -20,9 +20,10 @@
 //! Complexity: linear in the network for plain Bennett; the SAT search is
 //! bounded by `--exact-seconds`.
 
-use super::pebble::pebble;
+use super::pebble::{pebble, Pebbling};
 use super::{network_of, SynthError, SynthLimits, Synthesis};
 use crate::circuit::{Circuit, Control, Gate, Line};
+use crate::limit::Limit;
 use crate::logic::{Lit, Network, Node};
 use crate::spec::FunctionSpec;
 use std::collections::{BTreeMap, BTreeSet};
@@ -150,22 +151,45 @@ pub fn bennett(f: &FunctionSpec, limits: &SynthLimits) -> Result<Synthesis, Synt
     } else {
         let pebbles = budget.saturating_sub(n + m);
         let deadline = Instant::now() + Duration::from_secs_f64(limits.exact_seconds.max(0.0));
-        match pebble(&p, pebbles, deadline) {
-            Some(s) => {
+        match pebble(&p, pebbles, deadline, limits.max_clauses) {
+            Pebbling::Found(s) => {
                 notes.push(format!(
                     "bennett: scheduled within {budget} qubits ({pebbles} ancillae for {} nodes)",
                     p.needed.len()
                 ));
                 s
             }
-            None => {
-                let needed = (pebbles + 1..=p.needed.len())
-                    .find(|&k| pebble(&p, k, deadline).is_some())
-                    .unwrap_or(p.needed.len());
+            Pebbling::Impossible => {
+                // The smallest budget found to work; plain Bennett always does.
+                let mut needed = p.needed.len();
+                for k in pebbles + 1..p.needed.len() {
+                    match pebble(&p, k, deadline, limits.max_clauses) {
+                        Pebbling::Found(_) => {
+                            needed = k;
+                            break;
+                        }
+                        Pebbling::Impossible => {}
+                        Pebbling::OutOfTime | Pebbling::TooLarge(_) => break,
+                    }
+                }
                 return Err(SynthError::Budget {
                     budget,
                     needed: n + m + needed,
                 });
+            }
+            Pebbling::OutOfTime => {
+                return Err(SynthError::OutOfTime {
+                    what: format!("the search for a schedule within {budget} qubits"),
+                    seconds: limits.exact_seconds,
+                })
+            }
+            Pebbling::TooLarge(clauses) => {
+                return Err(SynthError::Limit {
+                    what: "the clause count of the pebbling encoding",
+                    value: clauses,
+                    limit: limits.max_clauses,
+                    kind: Limit::Clauses,
+                })
             }
         }
     };

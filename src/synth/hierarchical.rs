@@ -124,21 +124,40 @@ pub fn hierarchical(f: &FunctionSpec, limits: &SynthLimits) -> Result<Synthesis,
     })
 }
 
-/// Value of node `v` given the values of its piece's leaves (memoized in `val`).
+/// Value of node `v` given the values of its piece's leaves (memoized in
+/// `val`), by a walk with an explicit stack: a piece may be a long chain.
 fn piece_value(net: &Network, v: usize, val: &mut BTreeMap<usize, bool>) -> bool {
-    if let Some(&b) = val.get(&v) {
-        return b;
+    let mut stack = vec![v];
+    while let Some(&u) = stack.last() {
+        if val.contains_key(&u) {
+            stack.pop();
+            continue;
+        }
+        let (a, b, and) = match net.nodes()[u] {
+            Node::Zero => {
+                val.insert(u, false);
+                stack.pop();
+                continue;
+            }
+            Node::Input(_) => unreachable!("inputs are leaves"),
+            Node::And(a, b) => (a, b, true),
+            Node::Xor(a, b) => (a, b, false),
+        };
+        match (val.get(&a.node), val.get(&b.node)) {
+            (Some(&x), Some(&y)) => {
+                let (x, y) = (x ^ a.neg, y ^ b.neg);
+                val.insert(u, if and { x && y } else { x ^ y });
+                stack.pop();
+            }
+            (x, y) => {
+                if x.is_none() {
+                    stack.push(a.node);
+                }
+                if y.is_none() {
+                    stack.push(b.node);
+                }
+            }
+        }
     }
-    let r = match net.nodes()[v] {
-        Node::Zero => false,
-        Node::Input(_) => unreachable!("inputs are leaves"),
-        Node::And(a, b) => {
-            (piece_value(net, a.node, val) ^ a.neg) && (piece_value(net, b.node, val) ^ b.neg)
-        }
-        Node::Xor(a, b) => {
-            (piece_value(net, a.node, val) ^ a.neg) ^ (piece_value(net, b.node, val) ^ b.neg)
-        }
-    };
-    val.insert(v, r);
-    r
+    val[&v]
 }

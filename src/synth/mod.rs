@@ -130,6 +130,9 @@ pub struct SynthLimits {
     /// Most qubits the circuit may use, ancillae included; a method that can
     /// trade Toffolis for qubits schedules to fit.
     pub max_qubits: Option<usize>,
+    /// Most clauses a SAT encoding of synthesis may have (default
+    /// 10,000,000, about a gigabyte in the solver), checked before it is built.
+    pub max_clauses: usize,
 }
 
 impl Default for SynthLimits {
@@ -139,12 +142,13 @@ impl Default for SynthLimits {
             max_gates: 2_000_000,
             exact_seconds: 30.0,
             max_qubits: None,
+            max_clauses: 10_000_000,
         }
     }
 }
 
 /// Why synthesis produced no circuit.
-#[derive(Debug, Clone, PartialEq, Eq, thiserror::Error)]
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
 pub enum SynthError {
     /// The method does not take this kind of spec.
     #[error("method '{method}' does not apply to {kind} specs; {hint}")]
@@ -163,6 +167,14 @@ pub enum SynthError {
         budget: usize,
         /// A budget that works.
         needed: usize,
+    },
+    /// A search ran out of its time budget before it could answer.
+    #[error("{what} ran out of time ({seconds} s)")]
+    OutOfTime {
+        /// What was searched for.
+        what: String,
+        /// The budget in seconds.
+        seconds: f64,
     },
     /// A budget would be exceeded.
     #[error("{what} is {value}, over the limit of {limit}")]
@@ -241,6 +253,11 @@ pub fn synthesize(
             Ok(c.into())
         }
         (SpecBody::Arithmetic(a), Method::Structural) => {
+            if a.op == crate::spec::ArithOp::Lookup {
+                // One gate per set data bit: counted before any is built.
+                let gates = a.data.iter().map(|w| w.count_ones() as usize).sum();
+                check_gate_count(gates, limits)?;
+            }
             let c = arithmetic(a);
             check_gates(&c, limits)?;
             Ok(c.into())

@@ -4,14 +4,32 @@ use super::bennett::Plan;
 use std::collections::{BTreeMap, BTreeSet};
 use std::time::{Duration, Instant};
 
+/// What a pebbling search found.
+pub(super) enum Pebbling {
+    /// The nodes toggled at each step.
+    Found(Vec<Vec<usize>>),
+    /// No schedule of up to `8 N + 8` steps exists.
+    Impossible,
+    /// The deadline passed first.
+    OutOfTime,
+    /// The encoding would need this many clauses, over the limit.
+    TooLarge(usize),
+}
+
+/// Clauses of the encoding of `steps` steps: the fixed start and end, four
+/// per operand edge and step, and the sequential counter of every step.
+fn clauses(count: usize, edges: usize, k: usize, steps: usize) -> usize {
+    2 * count + steps * edges * 4 + steps.saturating_sub(1) * count * (1 + 2 * k)
+}
+
 /// A pebbling schedule that holds at most `k` nodes at any step and ends with
-/// every output leaf held: the nodes toggled at each step. `None` when no
-/// schedule was found before `deadline`.
-pub(super) fn pebble(p: &Plan, k: usize, deadline: Instant) -> Option<Vec<Vec<usize>>> {
+/// every output leaf held, searched until `deadline`, with encodings of at
+/// most `max_clauses` clauses.
+pub(super) fn pebble(p: &Plan, k: usize, deadline: Instant, max_clauses: usize) -> Pebbling {
     let v = &p.needed;
     let count = v.len();
     if count == 0 {
-        return Some(Vec::new());
+        return Pebbling::Found(Vec::new());
     }
     let goal: BTreeSet<usize> = p
         .copies
@@ -20,19 +38,27 @@ pub(super) fn pebble(p: &Plan, k: usize, deadline: Instant) -> Option<Vec<Vec<us
         .filter(|x| p.operands.contains_key(x))
         .collect();
     if goal.len() > k || k == 0 {
-        return None;
+        return Pebbling::Impossible;
     }
+    let edges: usize = p.operands.values().map(Vec::len).sum();
     let index: BTreeMap<usize, usize> = v.iter().enumerate().map(|(i, &x)| (x, i)).collect();
     let mut steps = count.max(2);
-    while Instant::now() < deadline && steps <= 8 * count + 8 {
+    while steps <= 8 * count + 8 {
+        let need = clauses(count, edges, k, steps);
+        if need > max_clauses {
+            return Pebbling::TooLarge(need);
+        }
+        if Instant::now() >= deadline {
+            return Pebbling::OutOfTime;
+        }
         let left = deadline.saturating_duration_since(Instant::now());
         match pebble_steps(p, &index, &goal, k, steps, left) {
-            Some(Some(s)) => return Some(s),
+            Some(Some(s)) => return Pebbling::Found(s),
             Some(None) => steps *= 2,
-            None => return None,
+            None => return Pebbling::OutOfTime,
         }
     }
-    None
+    Pebbling::Impossible
 }
 
 // Indices name the variables of the encoding (node i, step t).

@@ -26,14 +26,20 @@ pub fn run(spec_path: &Path, json: bool, limits: &LimitArgs) -> Result<i32, Fail
             best,
             &curve,
         );
-        println!(
+        outln!(
             "{}",
             serde_json::to_string_pretty(&report).unwrap_or_default()
         );
     } else {
-        println!(
+        outln!(
             "{:<17} {:>8} {:>8} {:>8} {:>7} {:>8} {:>9}  verified",
-            "method", "mct", "toffoli", "cnot", "qubits", "t-count", "seconds"
+            "method",
+            "mct",
+            "toffoli",
+            "cnot",
+            "qubits",
+            "t-count",
+            "seconds"
         );
         for (m, r) in &rows {
             match r {
@@ -44,7 +50,7 @@ pub fn run(spec_path: &Path, json: bool, limits: &LimitArgs) -> Result<i32, Fail
                         _ => "no".into(),
                     };
                     let mark = if Some(*m) == best { "*" } else { " " };
-                    println!(
+                    outln!(
                         "{:<17} {:>8} {:>8} {:>8} {:>7} {:>8} {:>9.3}  {v}",
                         format!("{m}{mark}"),
                         o.cost.mct_total(),
@@ -55,31 +61,30 @@ pub fn run(spec_path: &Path, json: bool, limits: &LimitArgs) -> Result<i32, Fail
                         secs
                     );
                     for n in &o.notes {
-                        println!("{:<17} note: {n}", "");
+                        outln!("{:<17} note: {n}", "");
                     }
                     if let Some(stop) = &o.stop {
-                        println!("{:<17} note: {}", "", stop_hint(stop));
+                        outln!("{:<17} note: {}", "", stop_hint(stop));
                     }
                 }
-                Err(e) => println!("{:<17} no circuit: {e}", m.name()),
+                Err(e) => outln!("{:<17} no circuit: {e}", m.name()),
             }
         }
         if let Some(m) = best {
-            println!(
-                "* fewest Toffolis among verified circuits: {m} (synth --method {m} writes it)"
-            );
+            outln!("* fewest Toffolis among verified circuits: {m} (synth --method {m} writes it)");
         }
         if curve.len() > 1 {
-            println!("\nqubits against Toffolis, bennett with --max-qubits:");
+            outln!("\nqubits against Toffolis, bennett with --max-qubits:");
             for o in &curve {
                 let v = if o.verification.is_proven() {
                     "verified"
                 } else {
                     "NOT verified"
                 };
-                println!(
+                outln!(
                     "  {:>5} qubits  {:>6} toffoli  {v}",
-                    o.cost.qubits, o.cost.toffoli
+                    o.cost.qubits,
+                    o.cost.toffoli
                 );
             }
         }

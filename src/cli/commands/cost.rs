@@ -14,12 +14,12 @@ pub fn run(circuit: &Path, json: bool, max_gates: usize) -> Result<i32, Failure>
     }
     let cost = Cost::measure(&c, &c);
     if json {
-        println!(
+        outln!(
             "{}",
             serde_json::to_string_pretty(&cost).unwrap_or_default()
         );
     } else {
-        println!("{}\n{cost}", circuit.display());
+        outln!("{}\n{cost}", circuit.display());
     }
     Ok(code::DONE)
 }

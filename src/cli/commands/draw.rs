@@ -40,7 +40,7 @@ pub fn run(
         (if lowered { out.lowered } else { out.mct }, title)
     };
     if json {
-        println!(
+        outln!(
             "{}",
             serde_json::to_string_pretty(&circuit).unwrap_or_default()
         );
@@ -48,13 +48,13 @@ pub fn run(
     }
     if let Some(p) = svg {
         write_atomic(p, &draw_svg(&circuit, &title), &[input])?;
-        println!("wrote {} ({} gates)", p.display(), circuit.gates().len());
+        outln!("wrote {} ({} gates)", p.display(), circuit.gates().len());
         return Ok(code::DONE);
     }
     let cols = width
         .or_else(|| std::env::var("COLUMNS").ok().and_then(|c| c.parse().ok()))
         .unwrap_or(100);
-    println!("{title}");
-    print!("{}", draw_text(&circuit, cols));
+    outln!("{title}");
+    out!("{}", draw_text(&circuit, cols));
     Ok(code::DONE)
 }

@@ -4,7 +4,6 @@ use crate::cli::args::Cli;
 use crate::cli::{code, Failure};
 use oraculum::export::json::{MethodRow, MethodsReport};
 use oraculum::Method;
-use std::io::Write;
 
 /// `auto` first, then every method, with what each takes and does.
 fn rows() -> Vec<MethodRow> {
@@ -22,13 +21,13 @@ fn rows() -> Vec<MethodRow> {
 pub fn methods(json: bool) -> Result<i32, Failure> {
     let methods = rows();
     if json {
-        println!(
+        outln!(
             "{}",
             serde_json::to_string_pretty(&MethodsReport { methods }).unwrap_or_default()
         );
     } else {
         for r in methods {
-            println!("{:<14} {}", r.method, r.about);
+            outln!("{:<14} {}", r.method, r.about);
         }
     }
     Ok(code::DONE)
@@ -36,7 +35,9 @@ pub fn methods(json: bool) -> Result<i32, Failure> {
 
 pub fn completions(shell: clap_complete::Shell) -> Result<i32, Failure> {
     let mut cmd = <Cli as clap::CommandFactory>::command();
-    clap_complete::generate(shell, &mut cmd, "oraculum", &mut std::io::stdout());
+    let mut script = Vec::new();
+    clap_complete::generate(shell, &mut cmd, "oraculum", &mut script);
+    out!("{}", String::from_utf8_lossy(&script));
     Ok(code::DONE)
 }
 
@@ -46,8 +47,6 @@ pub fn man() -> Result<i32, Failure> {
     clap_mangen::Man::new(cmd)
         .render(&mut out)
         .map_err(|e| Failure::bad(format!("cannot render the manual: {e}")))?;
-    std::io::stdout()
-        .write_all(&out)
-        .map_err(|e| Failure::bad(format!("cannot write the manual: {e}")))?;
+    out!("{}", String::from_utf8_lossy(&out));
     Ok(code::DONE)
 }

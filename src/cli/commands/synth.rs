@@ -18,12 +18,14 @@ pub fn run(
     format: Format,
     limits: &LimitArgs,
 ) -> Result<i32, Failure> {
+    // `-o -` is standard output, as without `-o`.
+    let output = output.filter(|p| *p != Path::new("-"));
     let spec = load_spec(spec_path)?;
     let opts = limits.build_options(method, !no_verify);
     let out = build_with_progress(&spec, &opts, &Bars::new(json)).map_err(build_failure)?;
     if let Verification::Ran(Verdict::Refuted { counterexample }) = &out.verification {
         if json {
-            println!(
+            outln!(
                 "{}",
                 serde_json::to_string_pretty(&out.report()).unwrap_or_default()
             );
@@ -50,7 +52,7 @@ pub fn run(
             output: output.map(|p| p.display().to_string()),
             circuit: output.is_none().then(|| text.clone()),
         };
-        println!(
+        outln!(
             "{}",
             serde_json::to_string_pretty(&report).unwrap_or_default()
         );
@@ -73,12 +75,12 @@ pub fn run(
     }
     match output {
         Some(p) => {
-            print!("{summary}");
-            println!("wrote {}", p.display());
+            out!("{summary}");
+            outln!("wrote {}", p.display());
         }
         None => {
-            print!("{text}");
-            eprint!("{summary}");
+            out!("{text}");
+            err!("{summary}");
         }
     }
     Ok(code::DONE)

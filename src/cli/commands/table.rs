@@ -39,23 +39,23 @@ pub fn run(depth: u8, rebuild: bool, json: bool) -> Result<i32, Failure> {
             reach: t.reach(),
             levels: TableReport::levels(t.levels()),
         };
-        println!(
+        outln!(
             "{}",
             serde_json::to_string_pretty(&report).unwrap_or_default()
         );
     } else {
-        println!(
+        outln!(
             "{action} the 4-line table of depth {} in {seconds:.1} s: {}",
             t.depth(),
             path.display()
         );
-        println!(
+        outln!(
             "exact proves minima of up to {} gates with it (longer searches are bounded by --exact-seconds)",
             t.reach()
         );
-        println!("{:>5} {:>12} {:>15}", "gates", "classes", "functions");
+        outln!("{:>5} {:>12} {:>15}", "gates", "classes", "functions");
         for (k, l) in t.levels().iter().enumerate() {
-            println!("{k:>5} {:>12} {:>15}", l.classes, l.functions);
+            outln!("{k:>5} {:>12} {:>15}", l.classes, l.functions);
         }
     }
     Ok(code::DONE)

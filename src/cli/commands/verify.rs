@@ -18,7 +18,7 @@ fn exit(v: &Verdict) -> i32 {
 }
 
 fn print_json<T: serde::Serialize>(value: &T) {
-    println!(
+    outln!(
         "{}",
         serde_json::to_string_pretty(value).unwrap_or_default()
     );
@@ -48,13 +48,13 @@ pub fn file(
         });
     } else {
         match &verdict {
-            Verdict::Proven { .. } => println!(
+            Verdict::Proven { .. } => outln!(
                 "{}: {} against {}",
                 circuit.display(),
                 verdict.summary(),
                 spec.display()
             ),
-            Verdict::Refuted { counterexample } => println!(
+            Verdict::Refuted { counterexample } => outln!(
                 "{}: refuted against {}\n{counterexample}",
                 circuit.display(),
                 spec.display()
@@ -85,13 +85,13 @@ pub fn against(
         });
     } else {
         match &verdict {
-            Verdict::Proven { .. } => println!(
+            Verdict::Proven { .. } => outln!(
                 "{}: equivalent to {}, {}",
                 circuit.display(),
                 other.display(),
                 verdict.summary()
             ),
-            Verdict::Refuted { counterexample } => println!(
+            Verdict::Refuted { counterexample } => outln!(
                 "{}: differs from {}\n{counterexample}",
                 circuit.display(),
                 other.display()
@@ -145,14 +145,14 @@ pub fn shard(
     match output {
         Some(p) => {
             write_atomic(p, &text, &[circuit, spec])?;
-            println!(
+            outln!(
                 "shard {k}/{n}: {} states checked, {}; wrote {}",
                 r.states,
                 if r.proven { "all correct" } else { "REFUTED" },
                 p.display()
             );
         }
-        None => print!("{text}"),
+        None => out!("{text}"),
     }
     Ok(if r.proven { code::DONE } else { code::REFUTED })
 }
@@ -188,9 +188,9 @@ pub fn merge(paths: &[PathBuf], circuit: &Path, spec: &Path, json: bool) -> Resu
         print_json(&v);
     } else {
         match &v {
-            Verdict::Proven { .. } => println!("{} shards: {}", results.len(), v.summary()),
+            Verdict::Proven { .. } => outln!("{} shards: {}", results.len(), v.summary()),
             Verdict::Refuted { counterexample } => {
-                println!("{} shards: refuted\n{counterexample}", results.len())
+                outln!("{} shards: refuted\n{counterexample}", results.len())
             }
         }
     }

@@ -8,10 +8,14 @@ use rayon::prelude::*;
 use std::sync::atomic::{AtomicBool, AtomicUsize, Ordering};
 use std::time::{Duration, Instant};
 
+/// The hits of one chunk of classes: its index and (target, `a`, class).
+type ChunkHits = (usize, Vec<(usize, Perm, Perm)>);
+
 /// What one pass of the search found.
 pub(super) enum Pass {
-    /// Target index, `a` as found, and the class's canonical form.
-    Hit(usize, Perm, Perm),
+    /// Every hit of the first chunk of classes that has one, in a fixed
+    /// order: (target index, `a` as found, the class's canonical form).
+    Hits(Vec<(usize, Perm, Perm)>),
     /// No target is `a . b` with `b` from the classes passed over.
     Miss,
     /// The budget ran out before the pass ended.
@@ -57,7 +61,12 @@ impl Exact4 {
         let depth = self.depth as usize;
         for k in 1..depth {
             match self.pass(&[f], k, deadline, depth + k, progress) {
-                Pass::Hit(_, a_form, r) => return self.assemble(f, a_form, r),
+                Pass::Hits(hits) => {
+                    return cheapest(
+                        hits.into_iter()
+                            .map(|(_, a_form, r)| self.assemble(f, a_form, r).gates),
+                    )
+                }
                 Pass::OutOfTime => return Self::bound(depth + k),
                 Pass::Miss => {}
             }
@@ -73,23 +82,17 @@ impl Exact4 {
             .collect();
         let targets: Vec<Perm> = neighbours.iter().map(|n| n.2).collect();
         match self.pass(&targets, depth - 1, deadline, 2 * depth, progress) {
-            Pass::Hit(i, a_form, r) => {
+            Pass::Hits(hits) => cheapest(hits.into_iter().map(|(i, a_form, r)| {
                 let (g, after, near) = neighbours[i];
                 let inner = self.assemble(near, a_form, r).gates;
                 // near = g . f gives f = g . near: near's circuit, then g;
                 // near = f . g gives f = near . g: g, then near's circuit.
-                let gates: Vec<Gate> = if after {
+                if after {
                     inner.into_iter().chain([g.gate()]).collect()
                 } else {
                     [g.gate()].into_iter().chain(inner).collect()
-                };
-                let n = gates.len();
-                Exact4Result {
-                    gates,
-                    minimal: true,
-                    lower_bound: n,
                 }
-            }
+            })),
             Pass::OutOfTime => Self::bound(2 * depth),
             Pass::Miss => Self::bound(2 * depth + 1),
         }
@@ -117,50 +120,63 @@ impl Exact4 {
     ) -> Pass {
         let reps = &self.reps[k];
         let conjugates: Vec<[Perm; 24]> = targets.iter().map(|&t| relabellings(t)).collect();
-        let hit: std::sync::Mutex<Option<(usize, Perm, Perm)>> = std::sync::Mutex::new(None);
-        let stop = AtomicBool::new(false);
+        // The chunks are searched in parallel, but only the first chunk (in
+        // the order of the classes) that has a hit counts, and all its hits
+        // are kept: the answer is the same on any number of threads.
+        let found: std::sync::Mutex<Vec<ChunkHits>> = std::sync::Mutex::new(Vec::new());
+        let first_hit = AtomicUsize::new(usize::MAX);
         let late = AtomicBool::new(false);
         let done = AtomicUsize::new(0);
         let chunk_len = (2048 / targets.len()).max(16);
-        reps.par_chunks(chunk_len).for_each(|chunk| {
-            if stop.load(Ordering::Relaxed) {
-                return;
-            }
-            if Instant::now() > deadline {
-                late.store(true, Ordering::Relaxed);
-                stop.store(true, Ordering::Relaxed);
-                return;
-            }
-            let mut forms = [0u64; 48];
-            for &r in chunk {
-                // t = a . b with b = s r^-1 s^-1 or s r s^-1 for a relabelling
-                // s; conjugating by s^-1, a is in the class of T . r or T . r^-1
-                // with T = s^-1 t s.
-                let ri = inverse(r);
-                for (i, conj) in conjugates.iter().enumerate() {
-                    for (j, &c) in conj.iter().enumerate() {
-                        forms[2 * j] = compose(c, r);
-                        forms[2 * j + 1] = compose(c, ri);
-                    }
-                    let keys = forms.map(canon);
-                    std::hint::black_box(self.table.touch(&keys));
-                    for (form, key) in forms.iter().zip(keys) {
-                        if self.table.get(key) == Some(self.depth) {
-                            stop.store(true, Ordering::Relaxed);
-                            let mut h = hit.lock().unwrap_or_else(|e| e.into_inner());
-                            if h.is_none() {
-                                *h = Some((i, *form, r));
+        reps.par_chunks(chunk_len)
+            .enumerate()
+            .for_each(|(index, chunk)| {
+                if index > first_hit.load(Ordering::Relaxed) || late.load(Ordering::Relaxed) {
+                    return;
+                }
+                if Instant::now() > deadline {
+                    late.store(true, Ordering::Relaxed);
+                    return;
+                }
+                let mut forms = [0u64; 48];
+                let mut hits = Vec::new();
+                for &r in chunk {
+                    // t = a . b with b = s r^-1 s^-1 or s r s^-1 for a relabelling
+                    // s; conjugating by s^-1, a is in the class of T . r or T . r^-1
+                    // with T = s^-1 t s.
+                    let ri = inverse(r);
+                    for (i, conj) in conjugates.iter().enumerate() {
+                        for (j, &c) in conj.iter().enumerate() {
+                            forms[2 * j] = compose(c, r);
+                            forms[2 * j + 1] = compose(c, ri);
+                        }
+                        let keys = forms.map(canon);
+                        std::hint::black_box(self.table.touch(&keys));
+                        for (form, key) in forms.iter().zip(keys) {
+                            if self.table.get(key) == Some(self.depth) {
+                                hits.push((i, *form, r));
                             }
-                            return;
                         }
                     }
                 }
-            }
-            let n = done.fetch_add(chunk.len(), Ordering::Relaxed) + chunk.len();
-            progress(gates, n as f64 / reps.len() as f64);
-        });
-        match hit.into_inner().unwrap_or_else(|e| e.into_inner()) {
-            Some((i, a_form, r)) => Pass::Hit(i, a_form, r),
+                if !hits.is_empty() {
+                    first_hit.fetch_min(index, Ordering::Relaxed);
+                    found
+                        .lock()
+                        .unwrap_or_else(|e| e.into_inner())
+                        .push((index, hits));
+                    return;
+                }
+                let n = done.fetch_add(chunk.len(), Ordering::Relaxed) + chunk.len();
+                progress(gates, n as f64 / reps.len() as f64);
+            });
+        let first = first_hit.into_inner();
+        let found = found.into_inner().unwrap_or_else(|e| e.into_inner());
+        // A hit proves the count; past the deadline the chunks before it
+        // may not all have run, so which minimum circuit comes out may then
+        // depend on the machine's speed (never whether it is minimal).
+        match found.into_iter().find(|(index, _)| *index == first) {
+            Some((_, hits)) => Pass::Hits(hits),
             None if late.into_inner() => Pass::OutOfTime,
             None => Pass::Miss,
         }
@@ -195,5 +211,44 @@ impl Exact4 {
             }
         }
         unreachable!("a hit is a relabelling of the query")
+    }
+}
+
+/// The cheapest of equally short circuits, by Toffolis once lowered, then
+/// gates with three controls (each needs an ancilla), then a fixed order of
+/// the gate lists; as a proven minimum.
+fn cheapest(circuits: impl Iterator<Item = Vec<Gate>>) -> Exact4Result {
+    let key = |gates: &Vec<Gate>| {
+        let toffolis: usize = gates
+            .iter()
+            .map(|g| match g.controls().len() {
+                2 => 1,
+                3 => 3,
+                _ => 0,
+            })
+            .sum();
+        let wide = gates.iter().filter(|g| g.controls().len() == 3).count();
+        let order: Vec<(u32, Vec<(u32, bool)>)> = gates
+            .iter()
+            .map(|g| {
+                (
+                    g.target().0,
+                    g.controls()
+                        .iter()
+                        .map(|c| (c.line.0, c.positive))
+                        .collect(),
+                )
+            })
+            .collect();
+        (toffolis, wide, gates.len(), order)
+    };
+    let gates = circuits
+        .min_by_key(key)
+        .expect("a pass with hits has at least one");
+    let n = gates.len();
+    Exact4Result {
+        gates,
+        minimal: true,
+        lower_bound: n,
     }
 }
