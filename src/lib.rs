@@ -32,6 +32,7 @@ pub mod limit;
 pub mod logic;
 pub mod lower;
 pub mod mutate;
+pub mod netlist;
 pub mod opt;
 pub mod pipeline;
 pub mod progress;
@@ -39,6 +40,7 @@ pub mod source;
 pub mod spec;
 pub mod synth;
 pub mod verify;
+pub mod xag;
 
 pub use circuit::{Circuit, Control, Cost, Gate, Line, LineInfo, Role};
 pub use exact::Tables;

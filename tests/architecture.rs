@@ -20,6 +20,8 @@ const ALLOWED: &[(&str, &[&str])] = &[
     ("logic", &[]),
     ("exact", &["circuit", "logic"]),
     ("progress", &["exact"]),
+    ("xag", &[]),
+    ("netlist", &["source", "logic"]),
     ("spec", &["source", "logic", "circuit"]),
     ("lower", &["circuit"]),
     ("mutate", &["circuit"]),
@@ -72,7 +74,23 @@ const IO_ALLOWED: &[&str] = &["src/exact/four/store.rs"];
 const GLOBAL_ALLOWED: &[&str] = &["src/exact/mod.rs"];
 
 /// Files over 600 lines, each holding one concept (named in its `//!` line).
-const LONG_FILES: &[&str] = &["src/logic/esop.rs", "src/verify/sat.rs"];
+const LONG_FILES: &[&str] = &[
+    // ESOP cubes and their algebra.
+    "src/logic/esop.rs",
+    // The verifier's SAT miter.
+    "src/verify/sat.rs",
+    // The verifier's gate kernel, compiled three times over CPU levels.
+    "src/verify/kernel.rs",
+    // The verifier's compiled word program for expressions.
+    "src/verify/program.rs",
+    // One reader each: BLIF, AIGER.
+    "src/netlist/blif.rs",
+    "src/netlist/aiger.rs",
+    // The raw netlist and its evaluation, with the readers' shared tests.
+    "src/netlist/mod.rs",
+    // Exact minimum-AND synthesis of small XOR-AND graphs.
+    "src/xag/exact.rs",
+];
 
 fn rust_files(dir: &Path, out: &mut Vec<PathBuf>) {
     for e in std::fs::read_dir(dir).unwrap() {
@@ -86,8 +104,13 @@ fn rust_files(dir: &Path, out: &mut Vec<PathBuf>) {
 }
 
 /// The code of a file with `//` comments blanked out (strings are kept; a
-/// `//` inside a string is rare enough in this code base to ignore).
+/// `//` inside a string is rare enough in this code base to ignore), and
+/// without its tests (a `#[cfg(test)]` module closes every file here).
 fn code_of(text: &str) -> String {
+    let text = match text.find("#[cfg(test)]") {
+        Some(k) => &text[..k],
+        None => text,
+    };
     text.lines()
         .map(|l| match l.find("//") {
             Some(k) => &l[..k],
@@ -118,7 +141,7 @@ fn sources() -> Vec<(String, String, String)> {
                 .unwrap()
                 .trim_end_matches(".rs")
                 .to_string();
-            if matches!(top.as_str(), "lib" | "main" | "cli") {
+            if matches!(top.as_str(), "lib" | "main" | "cli") || rel.ends_with("/tests.rs") {
                 return None;
             }
             let text = std::fs::read_to_string(&p).unwrap();

@@ -1,20 +1,42 @@
-//! Exhaustive bit-sliced simulation: every basis state of a slice of the state space through the gate list, 64 states a word, blocks in parallel.
+//! Exhaustive bit-sliced simulation: every basis state of a slice of the
+//! state space through the gate list, 64 states a word and `BLOCK_WORDS`
+//! words a block, blocks in parallel.
+//!
+//! Per block: the free lines get their state patterns, the gate program
+//! ([`super::kernel`]) runs over the rows at the CPU's widest vectors, the
+//! spec's expected rows come from the compiled expressions
+//! ([`super::program`]) or the bit-sliced arithmetic references
+//! ([`super::ripple`]), and the rows are compared word by word.
 
 use super::bind::{bind, Binding};
-use super::eval::Compiled;
+use super::kernel::{Dispatch, GateProgram, Literal};
+use super::program::{pattern, Node, Scratch, WordProgram};
 use super::reference::{arithmetic_reference, Model, Reference};
 use super::{Counterexample, RegisterValue, Verdict, VerifyError, VerifyOptions, BLOCK_WORDS};
 use crate::circuit::layout::ANCILLAE;
 use crate::circuit::Circuit;
+use crate::logic::{Dag, NodeId, Term};
 use crate::progress::{Event, Progress};
 use crate::spec::{OutputDef, Spec, SpecBody};
 use rayon::prelude::*;
 use std::sync::atomic::{AtomicU64, Ordering};
 
-/// Gate in the verifier's own form: controls as (line, fire-on-1) pairs.
-struct Op {
-    target: usize,
-    controls: Vec<(usize, bool)>,
+const W: usize = BLOCK_WORDS;
+
+/// The spec's graph in the verifier's own node form (every node; the
+/// program keeps only what the outputs need).
+fn nodes_of(dag: &Dag) -> Vec<Node> {
+    dag.terms()
+        .iter()
+        .map(|t| match *t {
+            Term::Const(b) => Node::Const(b),
+            Term::Var(j) => Node::Var(j),
+            Term::Not(a) => Node::Not(a),
+            Term::And(_) => Node::And(dag.operands(t).to_vec()),
+            Term::Or(_) => Node::Or(dag.operands(t).to_vec()),
+            Term::Xor(_) => Node::Xor(dag.operands(t).to_vec()),
+        })
+        .collect()
 }
 
 /// Exhaustive check of the words `[first, end)` of the state space (64 states a word).
@@ -31,29 +53,6 @@ pub(super) fn verify_words(
     if let Some(problem) = super::bind::form_mismatch(circuit, spec) {
         return Ok(Verdict::form_refuted(problem));
     }
-    let model = match &spec.body {
-        SpecBody::Function(f) => {
-            let mut roots = Vec::new();
-            let outputs = f
-                .outputs
-                .iter()
-                .map(|o| match &o.def {
-                    OutputDef::Table(t) => Reference::Words(t.words(), t.len()),
-                    OutputDef::Expr(root) => {
-                        roots.push(*root);
-                        Reference::Expr(roots.len() - 1)
-                    }
-                })
-                .collect();
-            Model::Function {
-                inputs: f.inputs.len(),
-                outputs,
-                program: Compiled::new(&f.dag, &roots),
-            }
-        }
-        SpecBody::Permutation(p) => Model::Permutation { images: p.images() },
-        SpecBody::Arithmetic(a) => Model::Arithmetic { spec: a, layout },
-    };
     let bits = binding.free.len() as u32;
     let states_all = if bits < 63 { 1u64 << bits } else { u64::MAX };
     let end = end.min(states_all.div_ceil(64));
@@ -65,39 +64,74 @@ pub(super) fn verify_words(
             limit: opts.max_states,
         });
     }
-    let states = states_all;
-    let ops: Vec<Op> = circuit
-        .gates()
-        .iter()
-        .map(|g| Op {
-            target: g.target().index(),
-            controls: g
-                .controls()
+    let dispatch = Dispatch::best();
+    let model = match &spec.body {
+        SpecBody::Function(f) => {
+            let mut roots: Vec<NodeId> = Vec::new();
+            let outputs = f
+                .outputs
                 .iter()
-                .map(|c| (c.line.index(), c.positive))
-                .collect(),
-        })
-        .collect();
+                .map(|o| match &o.def {
+                    OutputDef::Table(t) => Reference::Words(t.words(), t.len()),
+                    OutputDef::Expr(root) => {
+                        roots.push(*root);
+                        Reference::Expr(roots.len() - 1)
+                    }
+                })
+                .collect();
+            let program = WordProgram::compile(&nodes_of(&f.dag), &roots, W, dispatch)
+                .map_err(|e| VerifyError::Binding(format!("the spec's expressions: {e}")))?;
+            Model::Function {
+                inputs: f.inputs.len(),
+                outputs,
+                program,
+            }
+        }
+        SpecBody::Permutation(p) => Model::Permutation { images: p.images() },
+        SpecBody::Arithmetic(a) => Model::Arithmetic { spec: a, layout },
+    };
+    let mut program = GateProgram::new(circuit.width(), dispatch)
+        .map_err(|e| VerifyError::Binding(e.to_string()))?;
+    for g in circuit.gates() {
+        let controls: Vec<Literal> = g
+            .controls()
+            .iter()
+            .map(|c| Literal {
+                line: c.line.0,
+                positive: c.positive,
+            })
+            .collect();
+        program
+            .push(g.target().0, &controls)
+            .map_err(|e| VerifyError::Binding(e.to_string()))?;
+    }
     let checker = Checker {
+        circuit,
         width: circuit.width(),
-        ops,
+        program,
         binding,
         model,
-        states,
+        states: states_all,
+        dispatch,
     };
-    let blocks = (end - first).div_ceil(BLOCK_WORDS as u64);
+    // Blocks are aligned to their size, so the compiled expressions see
+    // whole blocks; the words outside [first, end) are not checked.
+    let (lo, hi) = (first / W as u64, end.div_ceil(W as u64));
     let done = AtomicU64::new(0);
     let checked = AtomicU64::new(0);
-    let failure = (0..blocks).into_par_iter().find_map_first(|b| {
-        let start = first + b * BLOCK_WORDS as u64;
-        let r = checker.block(start, end, &checked);
-        let d = done.fetch_add(64 * BLOCK_WORDS as u64, Ordering::Relaxed);
-        progress.event(Event::Verify {
-            done: (d + 64 * BLOCK_WORDS as u64).min(span),
-            total: span,
-        });
-        r
-    });
+    let failure = (lo..hi)
+        .into_par_iter()
+        .map_init(Work::default, |work, b| {
+            let r = checker.block(b * W as u64, first, end, work, &checked);
+            let d = done.fetch_add(64 * W as u64, Ordering::Relaxed);
+            progress.event(Event::Verify {
+                done: (d + 64 * W as u64).min(span),
+                total: span,
+            });
+            r
+        })
+        .find_first(Option::is_some)
+        .flatten();
     Ok(match failure {
         None => {
             let checked = checked.into_inner();
@@ -114,210 +148,205 @@ pub(super) fn verify_words(
     })
 }
 
+/// The buffers of one thread, reused from block to block.
+#[derive(Default)]
+struct Work {
+    scratch: Scratch<W>,
+    inputs: Vec<[u64; W]>,
+    rows: Vec<[u64; W]>,
+    expected: Vec<[u64; W]>,
+    temp: Vec<[u64; W]>,
+}
+
 struct Checker<'a> {
+    circuit: &'a Circuit,
     width: usize,
-    ops: Vec<Op>,
+    program: GateProgram,
     binding: Binding,
     model: Model<'a>,
     states: u64,
-}
-
-/// Bit `k` of the result is bit `bit` of `k`.
-const fn low_pattern(bit: usize) -> u64 {
-    let mut acc = 0u64;
-    let mut k = 0;
-    while k < 64 {
-        if (k >> bit) & 1 == 1 {
-            acc |= 1 << k;
-        }
-        k += 1;
-    }
-    acc
-}
-
-const LOW: [u64; 6] = [
-    low_pattern(0),
-    low_pattern(1),
-    low_pattern(2),
-    low_pattern(3),
-    low_pattern(4),
-    low_pattern(5),
-];
-
-/// Word `w` (states `64 w ..`) of the pattern of state bit `bit`.
-fn free_word(bit: usize, w: u64) -> u64 {
-    if bit < 6 {
-        LOW[bit]
-    } else if (w >> (bit - 6)) & 1 == 1 {
-        !0
-    } else {
-        0
-    }
+    dispatch: Dispatch,
 }
 
 impl Checker<'_> {
-    /// Simulates one block starting at word `first`; returns the first failing state.
-    fn block(&self, first: u64, end: u64, checked: &AtomicU64) -> Option<u64> {
-        let n_words = (end - first).min(BLOCK_WORDS as u64) as usize;
-        let mut st = vec![0u64; self.width * BLOCK_WORDS];
-        for (bit, &line) in self.binding.free.iter().enumerate() {
-            for w in 0..n_words {
-                st[line * BLOCK_WORDS + w] = free_word(bit, first + w as u64);
-            }
+    /// The state patterns of the free lines on the block at word `base`.
+    fn inputs(&self, base: u64, into: &mut Vec<[u64; W]>) {
+        into.resize(self.binding.free.len(), [0; W]);
+        for (bit, row) in into.iter_mut().enumerate() {
+            pattern::<W>(row, bit as u32, base);
         }
-        let row = |l: usize| l * BLOCK_WORDS..(l + 1) * BLOCK_WORDS;
-        let flip = |positive: bool| if positive { 0 } else { !0u64 };
-        for op in &self.ops {
-            // The common shapes get their own loops, which the compiler vectorizes.
-            let mut fire = [!0u64; BLOCK_WORDS];
-            match op.controls.as_slice() {
-                [] => {}
-                [(a, pa)] => {
-                    let fa = flip(*pa);
-                    for (f, &v) in fire.iter_mut().zip(&st[row(*a)]) {
-                        *f = v ^ fa;
+    }
+
+    /// The expected value of every free line on the block at word `base`
+    /// (into `work.expected`), and the mask of states inside the op's domain.
+    fn expected(&self, base: u64, work: &mut Work) -> [u64; W] {
+        let mut care = [!0u64; W];
+        let Work {
+            scratch,
+            inputs,
+            expected,
+            temp,
+            ..
+        } = work;
+        match &self.model {
+            Model::Function {
+                inputs: n,
+                outputs,
+                program,
+            } => {
+                temp.resize(program.outputs(), [0; W]);
+                let rows = temp;
+                program
+                    .evaluate::<W>(base, scratch, rows)
+                    .expect("compiled for this block size");
+                let out = expected;
+                out.clear();
+                out.extend_from_slice(&inputs[..*n]);
+                for (k, r) in outputs.iter().enumerate() {
+                    let mut row = inputs[n + k];
+                    match r {
+                        Reference::Expr(e) => {
+                            for (v, f) in row.iter_mut().zip(&rows[*e]) {
+                                *v ^= f;
+                            }
+                        }
+                        // x is the low n bits of the state number.
+                        Reference::Words(words, len) => {
+                            for (i, v) in row.iter_mut().enumerate() {
+                                let w = base + i as u64;
+                                *v ^= if *len >= 64 {
+                                    words[(w % (*len as u64 / 64)) as usize]
+                                } else {
+                                    (0..64).fold(0u64, |acc, k| {
+                                        acc | ((words[0] >> (k % *len as u64)) & 1) << k
+                                    })
+                                };
+                            }
+                        }
                     }
+                    out.push(row);
                 }
-                [(a, pa), (b, pb)] => {
-                    let (fa, fb) = (flip(*pa), flip(*pb));
-                    let (ra, rb) = (&st[row(*a)], &st[row(*b)]);
-                    for ((f, &x), &y) in fire.iter_mut().zip(ra).zip(rb) {
-                        *f = (x ^ fa) & (y ^ fb);
-                    }
-                }
-                controls => {
-                    for &(c, positive) in controls {
-                        let fc = flip(positive);
-                        for (f, &v) in fire.iter_mut().zip(&st[row(c)]) {
-                            *f &= v ^ fc;
+                care
+            }
+            Model::Permutation { images } => {
+                let out = expected;
+                out.clear();
+                out.resize(inputs.len(), [0; W]);
+                for i in 0..W {
+                    for k in 0..64u64 {
+                        let s = (base + i as u64) * 64 + k;
+                        if s >= self.states {
+                            break;
+                        }
+                        let img = images[s as usize];
+                        for (j, o) in out.iter_mut().enumerate() {
+                            o[i] |= ((img >> j) & 1) << k;
                         }
                     }
                 }
+                care
             }
-            for (v, f) in st[row(op.target)].iter_mut().zip(fire) {
-                *v ^= f;
+            Model::Arithmetic { spec, layout } => {
+                let d = self.dispatch;
+                if !super::reference::sliced(d, spec, inputs, expected, temp, &mut care) {
+                    *expected = self.per_state(base, spec, layout, &mut care);
+                }
+                care
             }
         }
-        let valid = if self.states < 64 {
+    }
+
+    /// The arithmetic reference one state at a time, for the ops the
+    /// bit-sliced references do not cover.
+    fn per_state(
+        &self,
+        base: u64,
+        spec: &crate::spec::ArithSpec,
+        layout: &[(&'static str, usize)],
+        care: &mut [u64; W],
+    ) -> Vec<[u64; W]> {
+        let mut out = vec![[0u64; W]; self.binding.free.len()];
+        let mut values = vec![0u64; layout.len()];
+        let mut result = vec![0u64; layout.len()];
+        for i in 0..W {
+            for k in 0..64u64 {
+                let s = (base + i as u64) * 64 + k;
+                if s >= self.states {
+                    break;
+                }
+                let mut shift = 0;
+                for (v, (_, width)) in values.iter_mut().zip(layout) {
+                    *v = (s >> shift) & ((1u64 << width) - 1);
+                    shift += width;
+                }
+                if !arithmetic_reference(spec, &values, &mut result) {
+                    care[i] &= !(1u64 << k);
+                    continue;
+                }
+                let mut bit = 0;
+                for (v, (_, width)) in result.iter().zip(layout) {
+                    for j in 0..*width {
+                        out[bit][i] |= ((v >> j) & 1) << k;
+                        bit += 1;
+                    }
+                }
+            }
+        }
+        out
+    }
+
+    /// Simulates the block at word `base`; returns the first failing state
+    /// of the words `[first, end)` in it.
+    fn block(
+        &self,
+        base: u64,
+        first: u64,
+        end: u64,
+        work: &mut Work,
+        checked: &AtomicU64,
+    ) -> Option<u64> {
+        self.inputs(base, &mut work.inputs);
+        let mut rows = std::mem::take(&mut work.rows);
+        rows.clear();
+        rows.resize(self.width, [0; W]);
+        for (bit, &line) in self.binding.free.iter().enumerate() {
+            rows[line] = work.inputs[bit];
+        }
+        self.program
+            .run_block::<W>(&mut rows)
+            .expect("the program was built for this width");
+        let care = self.expected(base, work);
+        let expected = &work.expected;
+        let mut count = 0u64;
+        let mut failed = None;
+        let valid_last = if self.states < 64 {
             (1u64 << self.states) - 1
         } else {
             !0
         };
-        // Expressions are evaluated once for the whole block.
-        let expr_rows: Vec<Vec<u64>> = match &self.model {
-            Model::Function { program, .. } => {
-                program.run(first, BLOCK_WORDS, &|j, w| free_word(j as usize, w))
+        for i in 0..W {
+            let word = base + i as u64;
+            if word < first || word >= end {
+                continue;
             }
-            _ => Vec::new(),
-        };
-        let mut expected = Vec::with_capacity(self.binding.free.len());
-        let mut pre = vec![0u64; expr_rows.len()];
-        for w in 0..n_words {
-            let word = first + w as u64;
-            let at = |line: usize| st[line * BLOCK_WORDS + w];
             let mut bad = 0u64;
             for &a in &self.binding.ancillae {
-                bad |= at(a);
+                bad |= rows[a][i];
             }
-            for (p, r) in pre.iter_mut().zip(&expr_rows) {
-                *p = r[w];
+            for (&line, e) in self.binding.free.iter().zip(expected.iter()) {
+                bad |= rows[line][i] ^ e[i];
             }
-            let care = self.expected_words(word, &mut expected, Some(&pre));
-            for (&line, e) in self.binding.free.iter().zip(&expected) {
-                bad |= at(line) ^ e;
-            }
-            bad &= valid & care;
-            checked.fetch_add((valid & care).count_ones() as u64, Ordering::Relaxed);
+            let mask = valid_last & care[i];
+            bad &= mask;
+            count += mask.count_ones() as u64;
             if bad != 0 {
-                return Some(word * 64 + bad.trailing_zeros() as u64);
+                failed = Some(word * 64 + bad.trailing_zeros() as u64);
+                break;
             }
         }
-        None
-    }
-
-    /// Expected value of every free line, for the 64 states of word `w`, into
-    /// `out`; returns the mask of states inside the op's domain. `pre` holds
-    /// each expression output's value on this word when already computed.
-    fn expected_words(&self, w: u64, out: &mut Vec<u64>, pre: Option<&[u64]>) -> u64 {
-        let nfree = self.binding.free.len();
-        out.clear();
-        let mut care = !0u64;
-        match &self.model {
-            Model::Function {
-                inputs,
-                outputs,
-                program,
-            } => {
-                let n = *inputs;
-                out.extend((0..n).map(|b| free_word(b, w)));
-                let alone;
-                let pre = match pre {
-                    Some(p) => p,
-                    None => {
-                        alone = program
-                            .run(w, 1, &|j, w| free_word(j as usize, w))
-                            .into_iter()
-                            .map(|r| r[0])
-                            .collect::<Vec<u64>>();
-                        &alone
-                    }
-                };
-                for (k, r) in outputs.iter().enumerate() {
-                    let f = match r {
-                        Reference::Expr(e) => pre[*e],
-                        // x is the low n bits of the state number.
-                        Reference::Words(words, len) if *len >= 64 => {
-                            words[(w % (*len as u64 / 64)) as usize]
-                        }
-                        Reference::Words(words, len) => (0..64).fold(0u64, |acc, k| {
-                            acc | ((words[0] >> (k % *len as u64)) & 1) << k
-                        }),
-                    };
-                    out.push(free_word(n + k, w) ^ f);
-                }
-            }
-            Model::Permutation { images } => {
-                out.resize(nfree, 0);
-                for k in 0..64u64 {
-                    let s = w * 64 + k;
-                    if s >= self.states {
-                        break;
-                    }
-                    let img = images[s as usize];
-                    for (j, o) in out.iter_mut().enumerate() {
-                        *o |= ((img >> j) & 1) << k;
-                    }
-                }
-            }
-            Model::Arithmetic { spec, layout } => {
-                out.resize(nfree, 0);
-                let mut values = vec![0u64; layout.len()];
-                for k in 0..64u64 {
-                    let s = w * 64 + k;
-                    if s >= self.states {
-                        break;
-                    }
-                    let mut shift = 0;
-                    for (v, (_, width)) in values.iter_mut().zip(layout) {
-                        *v = (s >> shift) & ((1u64 << width) - 1);
-                        shift += width;
-                    }
-                    match arithmetic_reference(spec, &values) {
-                        None => care &= !(1u64 << k),
-                        Some(result) => {
-                            let mut bit = 0;
-                            for (v, (_, width)) in result.iter().zip(layout) {
-                                for j in 0..*width {
-                                    out[bit] |= ((v >> j) & 1) << k;
-                                    bit += 1;
-                                }
-                            }
-                        }
-                    }
-                }
-            }
-        }
-        care
+        checked.fetch_add(count, Ordering::Relaxed);
+        work.rows = rows;
+        failed
     }
 
     /// Re-simulates the failing `state` alone and describes it.
@@ -327,16 +356,19 @@ impl Checker<'_> {
             v[line] = (state >> bit) & 1 == 1;
         }
         let before = v.clone();
-        for op in &self.ops {
-            if op.controls.iter().all(|&(c, p)| v[c] == p) {
-                v[op.target] = !v[op.target];
+        for g in self.circuit.gates() {
+            if g.controls().iter().all(|c| v[c.line.index()] == c.positive) {
+                v[g.target().index()] = !v[g.target().index()];
             }
         }
-        let mut word = Vec::new();
-        self.expected_words(state / 64, &mut word, None);
+        let word = state / 64;
+        let base = word / W as u64 * W as u64;
+        let mut work = Work::default();
+        self.inputs(base, &mut work.inputs);
+        self.expected(base, &mut work);
         let mut want = vec![false; self.width];
-        for (&line, e) in self.binding.free.iter().zip(&word) {
-            want[line] = (e >> (state % 64)) & 1 == 1;
+        for (&line, e) in self.binding.free.iter().zip(&work.expected) {
+            want[line] = (e[(word - base) as usize] >> (state % 64)) & 1 == 1;
         }
         let show = |vals: &[bool]| -> Vec<RegisterValue> {
             self.binding

@@ -15,7 +15,10 @@
 mod bind;
 mod eval;
 mod exhaustive;
+mod kernel;
+mod program;
 mod reference;
+mod ripple;
 mod sat;
 mod shard;
 mod verdict;
