@@ -27,6 +27,13 @@ pub enum Event {
 pub trait Progress: Sync {
     /// One event.
     fn event(&self, event: Event);
+
+    /// Whether the caller wants the work stopped (a notebook's interrupt):
+    /// long searches and verifications poll it and end with a cancelled
+    /// error, having claimed nothing.
+    fn cancelled(&self) -> bool {
+        false
+    }
 }
 
 /// No progress reports.

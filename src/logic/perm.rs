@@ -135,7 +135,7 @@ impl Permutation {
             }
             transpositions += len.saturating_sub(1);
         }
-        transpositions % 2 == 0
+        transpositions.is_multiple_of(2)
     }
 }
 

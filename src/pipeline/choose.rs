@@ -7,7 +7,7 @@ use super::{BuildError, BuildOptions, Outcome, Verification};
 use crate::progress::Progress;
 use crate::spec::{Spec, SpecBody};
 use crate::synth::{network_of, Method, SynthError, EXACT_ESOP_MAX_INPUTS};
-use crate::verify::Verdict;
+use crate::verify::{Verdict, VerifyError};
 
 /// Every method that applies to `spec`, cheapest first; `thorough` adds the
 /// slow ones (used by `compare`).
@@ -57,10 +57,13 @@ pub fn build_with_progress(
     if let Some(m) = opts.method {
         return build_one(spec, m, opts, progress);
     }
-    let tried: Vec<(Method, Result<Outcome, BuildError>)> = candidates(spec, false)
-        .into_iter()
-        .map(|m| (m, build_one(spec, m, opts, progress)))
-        .collect();
+    let mut tried: Vec<(Method, Result<Outcome, BuildError>)> = Vec::new();
+    for m in candidates(spec, false) {
+        if progress.cancelled() {
+            return Err(BuildError::Synth(SynthError::Cancelled));
+        }
+        tried.push((m, build_one(spec, m, opts, progress)));
+    }
     pick_best(tried, opts.limits.max_qubits)
 }
 
@@ -144,6 +147,7 @@ fn rank(o: &Outcome, max_qubits: Option<usize>) -> (u8, u8, usize, usize, usize)
 /// limit, and last a method that does not apply at all.
 fn telling(e: &BuildError) -> u8 {
     match e {
+        BuildError::Synth(SynthError::Cancelled) | BuildError::Verify(VerifyError::Cancelled) => 0,
         BuildError::Verify(v) if v.is_limit() => 0,
         BuildError::Synth(SynthError::Budget { .. }) => 1,
         BuildError::Synth(SynthError::OutOfTime { .. }) => 2,

@@ -88,9 +88,13 @@ fn circuit(
     let mut notes: Vec<String> = how.into_iter().collect();
     let budget = std::time::Duration::from_secs_f64(limits.exact_seconds.max(0.0));
     let r = table.solve_with(images, budget, &|gates, fraction| {
-        progress.event(Event::Search { gates, fraction })
+        progress.event(Event::Search { gates, fraction });
+        !progress.cancelled()
     });
     progress.event(Event::SearchDone);
+    if progress.cancelled() {
+        return Err(SynthError::Cancelled);
+    }
     let mut c = Circuit::new(lines);
     if r.minimal {
         for g in r.gates {

@@ -176,6 +176,9 @@ pub enum SynthError {
         /// The budget in seconds.
         seconds: f64,
     },
+    /// The caller stopped the search.
+    #[error("the search was stopped before it ended")]
+    Cancelled,
     /// A budget would be exceeded.
     #[error("{what} is {value}, over the limit of {limit}")]
     Limit {

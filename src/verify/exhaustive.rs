@@ -122,6 +122,9 @@ pub(super) fn verify_words(
     let failure = (lo..hi)
         .into_par_iter()
         .map_init(Work::default, |work, b| {
+            if progress.cancelled() {
+                return None;
+            }
             let r = checker.block(b * W as u64, first, end, work, &checked);
             let d = done.fetch_add(64 * W as u64, Ordering::Relaxed);
             progress.event(Event::Verify {
@@ -132,6 +135,9 @@ pub(super) fn verify_words(
         })
         .find_first(Option::is_some)
         .flatten();
+    if failure.is_none() && progress.cancelled() {
+        return Err(VerifyError::Cancelled);
+    }
     Ok(match failure {
         None => {
             let checked = checked.into_inner();

@@ -126,6 +126,9 @@ pub enum VerifyError {
     /// SAT cannot encode this spec or confirm its answer.
     #[error(transparent)]
     Sat(#[from] SatError),
+    /// The caller stopped the check.
+    #[error("the check was stopped before it ended (nothing was verified)")]
+    Cancelled,
 }
 
 impl VerifyError {
@@ -180,7 +183,7 @@ pub fn verify_with_progress(
         return exhaustive::verify_words(circuit, spec, opts, progress, 0, words);
     }
     let budget = std::time::Duration::from_secs_f64(opts.sat_seconds.max(0.0));
-    match sat_equivalence(circuit, spec, budget) {
+    match sat_equivalence(circuit, spec, budget, progress) {
         Ok(SatOutcome::Equivalent) => Ok(Verdict::Proven {
             by: "sat",
             free_bits,
@@ -190,6 +193,7 @@ pub fn verify_with_progress(
         Ok(SatOutcome::Counterexample(c)) => Ok(Verdict::Refuted {
             counterexample: Box::new(c),
         }),
+        Ok(SatOutcome::Timeout) if progress.cancelled() => Err(VerifyError::Cancelled),
         Ok(SatOutcome::Timeout) => Err(VerifyError::SatTimeout(opts.sat_seconds)),
         Err(SatError::Unsupported(why)) if opts.route == Route::Auto => {
             let _ = why;

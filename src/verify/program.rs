@@ -633,7 +633,7 @@ impl WordProgram {
                 given: W,
             });
         }
-        if first_word % W as u64 != 0 {
+        if !first_word.is_multiple_of(W as u64) {
             return Err(ProgramError::Misaligned {
                 first_word,
                 words: W,

@@ -17,6 +17,7 @@ use super::{Counterexample, RegisterValue};
 use crate::circuit::layout::ANCILLAE;
 use crate::circuit::Circuit;
 use crate::logic::{Dag, NodeId, Term};
+use crate::progress::Progress;
 use crate::spec::{ArithOp, ArithSpec, OutputDef, Spec, SpecBody};
 use std::collections::HashMap;
 use std::time::Duration;
@@ -49,16 +50,37 @@ pub enum SatError {
     Unconfirmed(String),
 }
 
-struct Cnf {
-    s: cadical::Solver<cadical::Timeout>,
+/// When the solver should give up: its time budget, or the caller's stop.
+struct Budget<'a> {
+    started: std::time::Instant,
+    budget: Duration,
+    stop: &'a dyn Progress,
+}
+
+impl cadical::Callbacks for Budget<'_> {
+    fn started(&mut self) {
+        self.started = std::time::Instant::now();
+    }
+
+    fn terminate(&mut self) -> bool {
+        self.started.elapsed() >= self.budget || self.stop.cancelled()
+    }
+}
+
+struct Cnf<'a> {
+    s: cadical::Solver<Budget<'a>>,
     next: i32,
     truth: i32,
 }
 
-impl Cnf {
-    fn new(budget: Duration) -> Self {
-        let mut s: cadical::Solver<cadical::Timeout> = cadical::Solver::new();
-        s.set_callbacks(Some(cadical::Timeout::new(budget.as_secs_f32())));
+impl<'a> Cnf<'a> {
+    fn new(budget: Duration, stop: &'a dyn Progress) -> Self {
+        let mut s: cadical::Solver<Budget<'a>> = cadical::Solver::new();
+        s.set_callbacks(Some(Budget {
+            started: std::time::Instant::now(),
+            budget,
+            stop,
+        }));
         let mut c = Cnf {
             s,
             next: 0,
@@ -470,10 +492,11 @@ pub fn sat_equivalence(
     circuit: &Circuit,
     spec: &Spec,
     budget: Duration,
+    stop: &dyn Progress,
 ) -> Result<SatOutcome, SatError> {
     let binding: Binding =
         bind(circuit, &spec.layout().sizes()).map_err(|e| SatError::Binding(e.to_string()))?;
-    let mut cnf = Cnf::new(budget);
+    let mut cnf = Cnf::new(budget, stop);
     let free: Vec<i32> = binding.free.iter().map(|_| cnf.var()).collect();
     let (want, domain) = expected(&mut cnf, spec, &free)?;
     let line = cnf.circuit(circuit, &binding.free, &free);
@@ -768,7 +791,7 @@ pub fn circuits_equivalent(
         .flat_map(|(n, _)| b.register(n))
         .map(|l| l.index())
         .collect();
-    let mut cnf = Cnf::new(budget);
+    let mut cnf = Cnf::new(budget, &());
     let free: Vec<i32> = free_a.iter().map(|_| cnf.var()).collect();
     let out_a = cnf.circuit(a, &free_a, &free);
     let out_b = cnf.circuit(b, &free_b, &free);

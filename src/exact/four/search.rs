@@ -29,15 +29,16 @@ impl Exact4 {
     /// the function needs more than [`Exact4::reach`] gates, the result is
     /// not minimal and carries the lower bound proven so far.
     pub fn solve(&self, images: &[u64], budget: Duration) -> Exact4Result {
-        self.solve_with(images, budget, &|_, _| {})
+        self.solve_with(images, budget, &|_, _| true)
     }
 
-    /// [`Exact4::solve`] reporting `(gate count being tried, fraction done)`.
+    /// [`Exact4::solve`] reporting `(gate count being tried, fraction done)`;
+    /// the search stops, as when the budget runs out, once `progress` answers false.
     pub fn solve_with(
         &self,
         images: &[u64],
         budget: Duration,
-        progress: &(dyn Fn(usize, f64) + Sync),
+        progress: &(dyn Fn(usize, f64) -> bool + Sync),
     ) -> Exact4Result {
         let deadline = Instant::now() + budget;
         if !is_permutation(images) {
@@ -116,7 +117,7 @@ impl Exact4 {
         k: usize,
         deadline: Instant,
         gates: usize,
-        progress: &(dyn Fn(usize, f64) + Sync),
+        progress: &(dyn Fn(usize, f64) -> bool + Sync),
     ) -> Pass {
         let reps = &self.reps[k];
         let conjugates: Vec<[Perm; 24]> = targets.iter().map(|&t| relabellings(t)).collect();
@@ -168,7 +169,9 @@ impl Exact4 {
                     return;
                 }
                 let n = done.fetch_add(chunk.len(), Ordering::Relaxed) + chunk.len();
-                progress(gates, n as f64 / reps.len() as f64);
+                if !progress(gates, n as f64 / reps.len() as f64) {
+                    late.store(true, Ordering::Relaxed);
+                }
             });
         let first = first_hit.into_inner();
         let found = found.into_inner().unwrap_or_else(|e| e.into_inner());
