@@ -115,7 +115,7 @@ fn main() {
                 (0..k)
                     .map(|_| {
                         let v = rng.next() % 20;
-                        if rng.next() % 2 == 0 {
+                        if rng.next().is_multiple_of(2) {
                             format!("v{v}")
                         } else {
                             format!("!v{v}")
