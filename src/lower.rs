@@ -15,10 +15,9 @@ use crate::circuit::{Circuit, Control, Gate, Line};
 /// ancilla lines it needs to the `anc` register.
 pub fn lower(circuit: &Circuit) -> Circuit {
     let need = circuit.max_controls().saturating_sub(2);
-    let mut out = circuit.clone();
-    out.set_gates(Vec::new());
+    let mut out = circuit.without_gates();
     let pool: Vec<Line> = (0..need).map(|_| out.add_ancilla()).collect();
-    let mut gates = Vec::with_capacity(circuit.gates().len() * 2);
+    let mut gates = Vec::with_capacity(lowered_len(circuit));
     for g in circuit.gates() {
         let negatives: Vec<Line> = g
             .controls()
@@ -58,6 +57,20 @@ pub fn lower(circuit: &Circuit) -> Circuit {
     out.set_gates(gates);
     cancel_pairs(&mut out);
     out
+}
+
+/// The number of gates [`lower`] makes before cancellation: NOT pairs around
+/// each negative control, and `2k - 3` Toffolis for `k >= 3` controls.
+pub fn lowered_len(circuit: &Circuit) -> usize {
+    circuit
+        .gates()
+        .iter()
+        .map(|g| {
+            let k = g.controls().len();
+            let neg = g.controls().iter().filter(|c| !c.positive).count();
+            2 * neg + if k >= 3 { 2 * k - 3 } else { 1 }
+        })
+        .sum()
 }
 
 #[cfg(test)]

@@ -859,3 +859,50 @@ fn results_are_the_same_on_any_number_of_threads() {
         }
     }
 }
+
+/// The ESOP gate limit is checked before any cube is built: a random
+/// function of 24 inputs and 16 outputs has about 2^23 cubes per output (a
+/// random Boolean function's Reed-Muller spectrum is dense, common
+/// practice), far past the default 2,000,000 gates, and is refused with
+/// nothing built. The assertion is on the work counter, not on time.
+#[test]
+fn esop_limit_is_checked_before_its_cubes_are_built() {
+    use oraculum::logic::{Dag, TruthTable};
+    use oraculum::spec::{FunctionSpec, Output, OutputDef};
+    use oraculum::synth::{esop_counted, EsopWork, SynthError, SynthLimits};
+
+    let n = 24;
+    let mut state = 0x9e37_79b9_7f4a_7c15u64;
+    let mut next = || {
+        state ^= state << 13;
+        state ^= state >> 7;
+        state ^= state << 17;
+        state
+    };
+    let outputs = (0..16)
+        .map(|j| {
+            let words: Vec<u64> = (0..(1usize << n) / 64).map(|_| next()).collect();
+            Output {
+                name: format!("f{j}"),
+                def: OutputDef::Table(TruthTable::from_words(n, &words)),
+            }
+        })
+        .collect();
+    let f = FunctionSpec {
+        inputs: (0..n).map(|i| format!("x{i}")).collect(),
+        outputs,
+        dag: Dag::default(),
+    };
+    let mut work = EsopWork::default();
+    match esop_counted(&f, &SynthLimits::default(), &mut work) {
+        Err(SynthError::Limit { limit, value, .. }) => {
+            assert_eq!(limit, 2_000_000);
+            assert!(value > limit, "{value}");
+        }
+        other => panic!(
+            "expected the gate limit, got {:?}",
+            other.map(|e| e.terms.len())
+        ),
+    }
+    assert_eq!(work.cubes, 0, "cubes were built before the refusal");
+}

@@ -7,6 +7,7 @@ pub mod rewrite;
 pub use cost::Cost;
 
 use serde::Serialize;
+use smallvec::SmallVec;
 use std::fmt;
 
 /// Index of a line (qubit) in a [`Circuit`].
@@ -79,14 +80,17 @@ impl Control {
 /// that act alike compare equal.
 #[derive(Clone, Debug, PartialEq, Eq, Hash, Serialize)]
 pub struct Gate {
-    controls: Vec<Control>,
+    // Up to three controls inline (every gate after lowering has at most
+    // two): a gate is 40 bytes and most need no allocation of their own.
+    controls: SmallVec<[Control; 3]>,
     target: Line,
 }
 
 impl Gate {
     /// Builds a gate; controls are sorted. Returns `None` when a control is on the
     /// target line or one line is used twice as a control.
-    pub fn new(mut controls: Vec<Control>, target: Line) -> Option<Self> {
+    pub fn new(controls: Vec<Control>, target: Line) -> Option<Self> {
+        let mut controls: SmallVec<[Control; 3]> = SmallVec::from_vec(controls);
         controls.sort();
         let clash = controls.iter().any(|c| c.line == target)
             || controls.windows(2).any(|w| w[0].line == w[1].line);
@@ -96,7 +100,7 @@ impl Gate {
     /// A NOT gate.
     pub fn not(target: u32) -> Self {
         Gate {
-            controls: Vec::new(),
+            controls: SmallVec::new(),
             target: Line(target),
         }
     }
@@ -280,6 +284,21 @@ impl Circuit {
     /// Replaces the gate list (same lines).
     pub fn set_gates(&mut self, gates: Vec<Gate>) {
         self.gates = gates;
+    }
+
+    /// Takes the gate list out, leaving none (for passes that rebuild it).
+    pub fn take_gates(&mut self) -> Vec<Gate> {
+        std::mem::take(&mut self.gates)
+    }
+
+    /// The same lines (and phase line) with no gates.
+    pub fn without_gates(&self) -> Circuit {
+        Circuit {
+            lines: self.lines.clone(),
+            gates: Vec::new(),
+            ancillae: self.ancillae,
+            phase: self.phase,
+        }
     }
 
     /// Number of lines.

@@ -1,6 +1,6 @@
 //! Gate algebra that keeps a circuit's function: cancelling pairs of equal gates.
 
-use super::{Circuit, Gate};
+use super::Circuit;
 
 /// How far back (in live gates) [`cancel_pairs`] looks for a partner.
 pub const CANCEL_WINDOW: usize = 256;
@@ -13,13 +13,15 @@ pub const CANCEL_WINDOW: usize = 256;
 ///
 /// Complexity: `O(G * CANCEL_WINDOW * c)` for `G` gates with up to `c` controls.
 pub fn cancel_pairs(circuit: &mut Circuit) {
-    let mut out: Vec<Option<Gate>> = Vec::with_capacity(circuit.gates().len());
-    // Indices of live entries of `out`, so tombstones cost nothing to skip.
-    let mut live: Vec<usize> = Vec::with_capacity(circuit.gates().len());
-    for g in circuit.gates() {
+    // In place: a flag per gate and the positions of the live ones, so the
+    // pass needs 5 bytes per gate beside the gate list itself.
+    let gates = circuit.take_gates();
+    let mut keep = vec![true; gates.len()];
+    let mut live: Vec<u32> = Vec::with_capacity(gates.len().min(1 << 20));
+    for (i, g) in gates.iter().enumerate() {
         let mut partner = None;
         for (k, &idx) in live.iter().enumerate().rev().take(CANCEL_WINDOW) {
-            let prev = out[idx].as_ref().expect("live entries hold gates");
+            let prev = &gates[idx as usize];
             if prev == g {
                 partner = Some(k);
                 break;
@@ -31,13 +33,15 @@ pub fn cancel_pairs(circuit: &mut Circuit) {
         match partner {
             Some(k) => {
                 let idx = live.remove(k);
-                out[idx] = None;
+                keep[idx as usize] = false;
+                keep[i] = false;
             }
-            None => {
-                live.push(out.len());
-                out.push(Some(g.clone()));
-            }
+            None => live.push(i as u32),
         }
     }
-    circuit.set_gates(out.into_iter().flatten().collect());
+    drop(live);
+    let mut gates = gates;
+    let mut flags = keep.into_iter();
+    gates.retain(|_| flags.next().unwrap_or(true));
+    circuit.set_gates(gates);
 }

@@ -46,12 +46,100 @@ pub fn esop(f: &FunctionSpec, limits: &SynthLimits) -> Result<Circuit, SynthErro
 
 /// The heuristic's ESOP for every output of `f`.
 pub fn esop_of(f: &FunctionSpec, limits: &SynthLimits) -> Result<Esop, SynthError> {
+    esop_counted(f, limits, &mut EsopWork::default())
+}
+
+/// What the heuristic built: cubes made, for checking that a refusal came
+/// before the work it refuses.
+#[derive(Clone, Copy, Debug, Default, PartialEq, Eq)]
+pub struct EsopWork {
+    /// Cubes materialized.
+    pub cubes: u64,
+}
+
+/// [`esop_of`], counting its work into `work`. The size of every output's
+/// expansion is known before any of its cubes is made, so a function whose
+/// ESOP would pass the gate limit is refused first: sharing cubes between
+/// outputs never lowers the gate count (one gate per cube and output), and
+/// exorlink, the only pass that does, runs only on at most
+/// [`EXORLINK_MAX_TERMS`] terms.
+pub fn esop_counted(
+    f: &FunctionSpec,
+    limits: &SynthLimits,
+    work: &mut EsopWork,
+) -> Result<Esop, SynthError> {
     let n = f.inputs.len();
     super::check_table_inputs(n, limits)?;
-    let tables: Vec<TruthTable> = (0..f.outputs.len())
-        .map(|j| f.table(j).expect("within the table limit"))
-        .collect();
-    Ok(minimize_tables(&tables))
+    let m = f.outputs.len();
+    let mut plans = Vec::with_capacity(m);
+    let mut gates = 0usize;
+    for j in 0..m {
+        let t = f.table(j).expect("within the table limit");
+        let plan = plan(&t);
+        gates = gates.saturating_add(plan.size());
+        if gates > limits.max_gates && gates > m * EXORLINK_MAX_TERMS {
+            return Err(SynthError::Limit {
+                what: "the gate count before lowering (the ESOP's cubes, per output)",
+                value: gates,
+                limit: limits.max_gates,
+                kind: crate::limit::Limit::Gates,
+            });
+        }
+        plans.push((t, plan));
+    }
+    let mut shared: HashMap<Cube, u64> = HashMap::new();
+    for (j, (t, plan)) in plans.into_iter().enumerate() {
+        let cubes = plan.cubes(&t);
+        work.cubes += cubes.len() as u64;
+        for c in cubes {
+            *shared.entry(c).or_insert(0) ^= 1 << j;
+        }
+    }
+    Ok(finish(n, shared))
+}
+
+/// The expansion chosen for one output, before its cubes are made.
+enum Plan {
+    /// Fixed polarity `p` with `size` cubes.
+    Fixed { p: u32, size: usize },
+    /// Cubes already made (small tables: pseudo-Kronecker or fixed polarity).
+    Made(Vec<Cube>),
+}
+
+impl Plan {
+    fn size(&self) -> usize {
+        match self {
+            Plan::Fixed { size, .. } => *size,
+            Plan::Made(c) => c.len(),
+        }
+    }
+
+    fn cubes(self, t: &TruthTable) -> Vec<Cube> {
+        match self {
+            Plan::Fixed { p, .. } => fprm_cubes(t, p),
+            Plan::Made(c) => c,
+        }
+    }
+}
+
+fn plan(t: &TruthTable) -> Plan {
+    if t.vars() > 10 {
+        let p = best_polarity(t);
+        return Plan::Fixed {
+            p,
+            size: fprm_cost(t, p).0,
+        };
+    }
+    Plan::Made(best_expansion(t))
+}
+
+fn finish(n: usize, shared: HashMap<Cube, u64>) -> Esop {
+    let mut terms: Vec<Term> = shared.into_iter().filter(|(_, o)| *o != 0).collect();
+    terms.sort();
+    if terms.len() <= EXORLINK_MAX_TERMS {
+        terms = exorlink_minimize(terms, 40, EXORLINK_WORK);
+    }
+    Esop { vars: n, terms }
 }
 
 /// Extracts and minimizes an ESOP for the given single-output tables (all over
@@ -64,12 +152,7 @@ pub fn minimize_tables(tables: &[TruthTable]) -> Esop {
             *shared.entry(c).or_insert(0) ^= 1 << j;
         }
     }
-    let mut terms: Vec<Term> = shared.into_iter().filter(|(_, o)| *o != 0).collect();
-    terms.sort();
-    if terms.len() <= EXORLINK_MAX_TERMS {
-        terms = exorlink_minimize(terms, 40, EXORLINK_WORK);
-    }
-    Esop { vars: n, terms }
+    finish(n, shared)
 }
 
 fn check_terms(e: &Esop, limits: &SynthLimits) -> Result<(), SynthError> {

@@ -18,7 +18,8 @@ mod transform;
 pub use arith::{arith_lines, arithmetic, Registers};
 pub use bennett::{bennett, bennett_counts};
 pub use esop::{
-    esop_circuit, esop_of, exorlink_minimize, minimize_tables, EXORLINK_MAX_TERMS, EXORLINK_WORK,
+    esop_circuit, esop_counted, esop_of, exorlink_minimize, minimize_tables, EsopWork,
+    EXORLINK_MAX_TERMS, EXORLINK_WORK,
 };
 pub use esop_exact::{exact_esop, ExactEsop, EXACT_ESOP_MAX_INPUTS};
 pub use hierarchical::{hierarchical, PIECE_INPUTS};
