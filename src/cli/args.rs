@@ -64,9 +64,8 @@ pub enum Command {
         /// Skip verification; the report says the circuit was not checked.
         #[arg(long)]
         no_verify: bool,
-        /// Output format of the circuit.
-        #[arg(long, value_enum, default_value = "qasm")]
-        format: Format,
+        #[command(flatten)]
+        form: FormArgs,
         #[command(flatten)]
         limits: LimitArgs,
     },
@@ -186,6 +185,17 @@ pub enum Command {
     },
     /// Print the manual page (roff), for `man -l -` or a man folder.
     Man,
+}
+
+/// How `synth` shapes the circuit it writes.
+#[derive(clap::Args)]
+pub struct FormArgs {
+    /// Output format of the circuit.
+    #[arg(long, value_enum, default_value = "qasm")]
+    pub format: Format,
+    /// Write the circuit as an OpenQASM 2 gate definition named NAME (every line an argument, ancillae entering and leaving at |0>) and one application of it.
+    #[arg(long, value_name = "NAME")]
+    pub as_gate: Option<String>,
 }
 
 #[derive(clap::Args)]

@@ -137,7 +137,7 @@ fn dispatch(cmd: Command) -> Result<i32, Failure> {
             method,
             json,
             no_verify,
-            format,
+            form,
             limits,
         } => commands::synth::run(
             &spec,
@@ -145,7 +145,7 @@ fn dispatch(cmd: Command) -> Result<i32, Failure> {
             method.0,
             json,
             no_verify,
-            format,
+            &form,
             &limits,
         ),
         Command::Verify {

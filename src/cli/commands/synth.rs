@@ -1,6 +1,6 @@
 //! `oraculum synth`: build, verify and write one spec.
 
-use crate::cli::args::{Format, LimitArgs};
+use crate::cli::args::{FormArgs, Format, LimitArgs};
 use crate::cli::files::{load_spec, write_atomic};
 use crate::cli::render::{build_failure, stop_hint, Bars};
 use crate::cli::{code, Failure};
@@ -15,9 +15,15 @@ pub fn run(
     method: Option<Method>,
     json: bool,
     no_verify: bool,
-    format: Format,
+    form: &FormArgs,
     limits: &LimitArgs,
 ) -> Result<i32, Failure> {
+    let format = form.format;
+    if form.as_gate.is_some() && !matches!(format, Format::Qasm) {
+        return Err(Failure::bad(
+            "--as-gate writes OpenQASM; it takes --format qasm",
+        ));
+    }
     // `-o -` is standard output, as without `-o`.
     let output = output.filter(|p| *p != Path::new("-"));
     let spec = load_spec(spec_path)?;
@@ -38,9 +44,11 @@ pub fn run(
         ));
     }
     let text = match format {
-        Format::Qasm => out
-            .qasm()
-            .map_err(|e| Failure::bad(format!("cannot write OpenQASM 2: {e}")))?,
+        Format::Qasm => match &form.as_gate {
+            Some(name) => out.qasm_gate(name),
+            None => out.qasm(),
+        }
+        .map_err(|e| Failure::bad(format!("cannot write OpenQASM 2: {e}")))?,
         Format::Text => listing(&out.lowered),
     };
     if let Some(path) = output {

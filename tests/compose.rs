@@ -1,0 +1,251 @@
+//! Oracles that drop into an algorithm (issue 16): the gate form, and the
+//! reader's expansion of gate definitions (OpenQASM 2, Cross, Bishop, Smolin,
+//! Gambetta 2017, section 3: a gate body uses only gates defined before it,
+//! on its own arguments, which are distinct).
+
+mod common;
+
+use common::{run_in, text, workspace};
+use oraculum::export::{read_qasm, read_qasm_with, ReadLimits};
+
+/// Every demo spec written plainly and in gate form: the reader gives the same
+/// gate list for both, and the verifier proves the gate-form file.
+#[test]
+fn the_gate_form_and_its_expansion_verify_alike() {
+    let dir = workspace();
+    let mut count = 0;
+    for e in std::fs::read_dir(dir.path().join("specs")).unwrap() {
+        let p = e.unwrap().path();
+        let spec = p.to_str().unwrap().to_string();
+        let plain = format!("{spec}.qasm");
+        let gate = format!("{spec}.gate.qasm");
+        let o = run_in(dir.path(), &["synth", &spec, "-o", &plain, "-m", "bennett"]);
+        if o.status.code() != Some(0) {
+            // Not every spec takes every method (permutations, arithmetic).
+            let o = run_in(dir.path(), &["synth", &spec, "-o", &plain]);
+            assert_eq!(o.status.code(), Some(0), "{spec}: {:?}", text(&o));
+        }
+        let method = if run_in(dir.path(), &["synth", &spec, "-m", "bennett"])
+            .status
+            .success()
+        {
+            "bennett"
+        } else {
+            "auto"
+        };
+        let o = run_in(
+            dir.path(),
+            &[
+                "synth",
+                &spec,
+                "-o",
+                &gate,
+                "-m",
+                method,
+                "--as-gate",
+                "oracle",
+            ],
+        );
+        assert_eq!(o.status.code(), Some(0), "{spec}: {:?}", text(&o));
+        let a = std::fs::read_to_string(dir.path().join(&plain)).unwrap();
+        let b = std::fs::read_to_string(dir.path().join(&gate)).unwrap();
+        assert!(b.contains("\ngate oracle "), "{b}");
+        let ca = read_qasm("plain", &a).unwrap();
+        let cb = read_qasm("gate", &b).unwrap();
+        assert_eq!(ca.gates(), cb.gates(), "{spec}");
+        assert_eq!(ca.phase(), cb.phase(), "{spec}");
+        assert_eq!(ca.lines(), cb.lines(), "{spec}");
+        let o = run_in(dir.path(), &["verify", &gate, "--spec", &spec]);
+        let (out, err) = text(&o);
+        assert_eq!(o.status.code(), Some(0), "{spec}: {out}{err}");
+        assert!(out.contains(": verified "), "{out}");
+        count += 1;
+    }
+    assert!(count >= 10);
+}
+
+const HEAD: &str = "OPENQASM 2.0;\ninclude \"qelib1.inc\";\n";
+
+/// Nested definitions expand in order: maj (the majority step of Cuccaro,
+/// Draper, Kutin, Moulton 2004, figure 3: cx c,b; cx c,a; ccx a,b,c) applied
+/// inside a second definition.
+#[test]
+fn nested_definitions_expand_in_order() {
+    let text = format!(
+        "{HEAD}gate maj a,b,c {{ cx c,b; cx c,a; ccx a,b,c; }}\ngate twice p,q,r,s {{ maj p,q,r; barrier p,s; maj s,q,r; x s; }}\nqreg x[4];\ntwice x[0],x[1],x[2],x[3];\n"
+    );
+    let c = read_qasm("t.qasm", &text).unwrap();
+    use oraculum::Gate;
+    assert_eq!(
+        c.gates(),
+        &[
+            Gate::cnot(2, 1),
+            Gate::cnot(2, 0),
+            Gate::toffoli(0, 1, 2),
+            Gate::cnot(2, 1),
+            Gate::cnot(2, 3),
+            Gate::toffoli(3, 1, 2),
+            Gate::not(3),
+        ]
+    );
+    // A whole-register application repeats the gate across the registers.
+    let text = format!("{HEAD}gate flip a,b {{ cx a,b; }}\nqreg x[2];\nqreg y[2];\nflip x,y;\n");
+    let c = read_qasm("t.qasm", &text).unwrap();
+    assert_eq!(c.gates(), &[Gate::cnot(0, 2), Gate::cnot(1, 3)]);
+}
+
+fn error_at(text: &str) -> (usize, usize, String) {
+    let e = read_qasm("t.qasm", text).unwrap_err();
+    let l = e.located().expect("a located error").clone();
+    (l.location.line, l.location.column, e.to_string())
+}
+
+#[test]
+fn bad_definitions_are_refused_at_their_place() {
+    // Repeated argument in a body.
+    let (l, c, m) = error_at(&format!("{HEAD}gate g a,b {{\n  cx a,a;\n}}\nqreg q[2];\n"));
+    assert_eq!((l, c), (4, 8), "{m}");
+    assert!(m.contains("twice"), "{m}");
+    // Wrong arity at the application.
+    let (l, c, m) = error_at(&format!(
+        "{HEAD}gate g a,b {{ cx a,b; }}\nqreg q[3];\ng q[0],q[1],q[2];\n"
+    ));
+    assert_eq!((l, c), (5, 2), "{m}");
+    assert!(m.contains("takes 2 operand(s), found 3"), "{m}");
+    // The same qubit twice at the application.
+    let (l, _, m) = error_at(&format!(
+        "{HEAD}gate g a,b {{ cx a,b; }}\nqreg q[3];\ng q[1],q[1];\n"
+    ));
+    assert_eq!(l, 5, "{m}");
+    assert!(m.contains("same qubit twice"), "{m}");
+    // A gate used before it is defined, or not at all.
+    let (l, c, m) = error_at(&format!("{HEAD}gate g a {{ h a; }}\n"));
+    assert_eq!((l, c), (3, 12), "{m}");
+    // An indexed operand inside a body.
+    let (l, c, m) = error_at(&format!("{HEAD}qreg q[2];\ngate g a {{ x q[0]; }}\n"));
+    assert_eq!((l, c), (4, 14), "{m}");
+    assert!(m.contains("without an index"), "{m}");
+    // Parameters, redefinition, a missing brace.
+    let (_, _, m) = error_at(&format!("{HEAD}gate g(theta) a {{ x a; }}\n"));
+    assert!(m.contains("parameters"), "{m}");
+    let (l, _, m) = error_at(&format!("{HEAD}gate g a {{ x a; }}\ngate g a {{ x a; }}\n"));
+    assert_eq!(l, 4, "{m}");
+    assert!(m.contains("already defined"), "{m}");
+    let (l, _, m) = error_at(&format!("{HEAD}gate g a {{ x a;\n"));
+    assert_eq!(l, 3, "{m}");
+    assert!(m.contains("'}'"), "{m}");
+    let (_, _, m) = error_at(&format!("{HEAD}gate ccx a,b,c {{ x a; }}\n"));
+    assert!(m.contains("already defined"), "{m}");
+}
+
+/// Twenty nested definitions, each applying the previous ten times, expand to
+/// 10^20 gates: the budget refuses the application before anything is built.
+#[test]
+fn the_gate_budget_is_checked_before_expansion() {
+    let mut deep = format!("{HEAD}gate g0 a {{ x a; }}\n");
+    for k in 1..=20 {
+        let body = format!("g{} a; ", k - 1).repeat(10);
+        deep.push_str(&format!("gate g{k} a {{ {body}}}\n"));
+    }
+    deep.push_str("qreg q[1];\ng20 q[0];\n");
+    let e = read_qasm("t.qasm", &deep).unwrap_err();
+    assert!(
+        matches!(e, oraculum::export::ReadError::Limit { value, .. } if value == u64::MAX || value >= 10u64.pow(19)),
+        "{e}"
+    );
+    // Within a budget the same kind of file is read: g3 is 10^3 gates.
+    let mut small = format!("{HEAD}gate g0 a {{ x a; }}\n");
+    for k in 1..=3 {
+        let body = format!("g{} a; ", k - 1).repeat(10);
+        small.push_str(&format!("gate g{k} a {{ {body}}}\n"));
+    }
+    small.push_str("qreg q[1];\ng3 q[0];\n");
+    let limits = ReadLimits {
+        max_gates: 1000,
+        ..ReadLimits::default()
+    };
+    assert_eq!(
+        read_qasm_with("t", &small, &limits).unwrap().gates().len(),
+        1000
+    );
+    let limits = ReadLimits {
+        max_gates: 999,
+        ..ReadLimits::default()
+    };
+    assert!(read_qasm_with("t", &small, &limits).is_err());
+    // From the command line: exit 3, naming the option.
+    let dir = workspace();
+    std::fs::write(dir.path().join("big.qasm"), &deep).unwrap();
+    let o = run_in(dir.path(), &["cost", "big.qasm"]);
+    let (_, err) = text(&o);
+    assert_eq!(o.status.code(), Some(3), "{err}");
+    assert!(err.contains("--max-gates"), "{err}");
+}
+
+#[test]
+fn a_bad_gate_name_is_a_usage_error() {
+    let dir = workspace();
+    for bad in ["cx", "Oracle", "x", "9lives", "anc"] {
+        let o = run_in(
+            dir.path(),
+            &["synth", "specs/greenhouse.toml", "--as-gate", bad],
+        );
+        assert_eq!(o.status.code(), Some(2), "{bad}: {:?}", text(&o));
+    }
+}
+
+/// The plain reader (moved here from src/export/qasm2.rs).
+#[test]
+fn reads_what_it_writes_and_refuses_the_rest() {
+    use oraculum::export::{write_qasm, QasmHeader};
+    use oraculum::Gate;
+    let text = "OPENQASM 2.0;\ninclude \"qelib1.inc\"; // the standard library\nqreg x[2];\nqreg y[1];\ncreg c[1];\nccx x[0],x[1],y[0];\nCX x[0], y[0];\nx y;\nbarrier x;\n";
+    let c = read_qasm("t.qasm", text).unwrap();
+    assert_eq!(c.width(), 3);
+    assert_eq!(
+        c.gates(),
+        &[Gate::toffoli(0, 1, 2), Gate::cnot(0, 2), Gate::not(2)]
+    );
+    let again = write_qasm(&c, &QasmHeader::default()).unwrap();
+    assert_eq!(read_qasm("again", &again).unwrap().gates(), c.gates());
+
+    let e = read_qasm("t.qasm", "OPENQASM 2.0;\nqreg q[2];\nh q[0];\n").unwrap_err();
+    let e = e.located().unwrap();
+    assert_eq!((e.location.line, e.location.column), (3, 1));
+    let e = read_qasm("t.qasm", "OPENQASM 2.0;\nqreg q[2];\ncx q[0], q[5];\n").unwrap_err();
+    let e = e.located().unwrap();
+    assert_eq!((e.location.line, e.location.column), (3, 10));
+    let e = read_qasm("t.qasm", "OPENQASM 2.0;\nqreg q[2];\ncx q[1],q[1];\n").unwrap_err();
+    assert!(e.to_string().contains("same qubit"), "{e}");
+    assert!(read_qasm("t.qasm", "qreg q[2];").is_err());
+    assert!(read_qasm("t.qasm", "OPENQASM 2.0;\nqreg q[2]").is_err());
+}
+
+/// The gate form run by an outside simulator (the `qasmsim` crate): every
+/// input of the greenhouse spec gives the spec's outputs, evaluated here from
+/// the spec's own text (vent = table 0x3e, fan = hot & !night | humid ^ hot),
+/// with the ancilla back at 0.
+#[test]
+fn an_outside_simulator_runs_the_gate_form() {
+    let dir = workspace();
+    let o = run_in(
+        dir.path(),
+        &["synth", "specs/greenhouse.toml", "--as-gate", "vent_oracle"],
+    );
+    assert_eq!(o.status.code(), Some(0), "{:?}", text(&o));
+    let qasm = text(&o).0;
+    assert!(qasm.contains("\ngate vent_oracle "), "{qasm}");
+    for i in 0..8u64 {
+        let set: Vec<(String, usize)> = (0..3)
+            .filter(|j| (i >> j) & 1 == 1)
+            .map(|j| ("x".to_string(), j))
+            .collect();
+        let r = common::qasmsim_run(&qasm, &set);
+        let (hot, humid, night) = (i & 1 == 1, i & 2 == 2, i & 4 == 4);
+        let vent = (0x3e >> i) & 1 == 1;
+        let fan = (hot && !night) || (humid ^ hot);
+        assert_eq!(r["x"], i, "input {i}");
+        assert_eq!(r["y"], vent as u64 | ((fan as u64) << 1), "input {i}");
+        assert_eq!(r["anc"], 0, "input {i}");
+    }
+}
