@@ -79,6 +79,9 @@ pub enum Command {
         /// Another circuit it should be equivalent to (proven by SAT).
         #[arg(long)]
         against: Option<PathBuf>,
+        /// Prove the circuit realizes the inverse of the spec's map.
+        #[arg(long, requires = "spec", conflicts_with = "shard")]
+        inverse: bool,
         /// Print the verdict as one JSON object.
         #[arg(long)]
         json: bool,
@@ -196,6 +199,9 @@ pub struct FormArgs {
     /// Write the circuit as an OpenQASM 2 gate definition named NAME (every line an argument, ancillae entering and leaving at |0>) and one application of it.
     #[arg(long, value_name = "NAME")]
     pub as_gate: Option<String>,
+    /// Write the inverse circuit (the gates in reverse order), verified against the inverse of the spec's map.
+    #[arg(long)]
+    pub inverse: bool,
 }
 
 #[derive(clap::Args)]

@@ -152,6 +152,7 @@ fn dispatch(cmd: Command) -> Result<i32, Failure> {
             circuit,
             spec,
             against,
+            inverse,
             json,
             max_states,
             method,
@@ -178,7 +179,9 @@ fn dispatch(cmd: Command) -> Result<i32, Failure> {
                         &opts,
                         max_gates,
                     ),
-                    None => commands::verify::file(&circuit, &spec, json, &opts, max_gates),
+                    None => {
+                        commands::verify::file(&circuit, &spec, json, inverse, &opts, max_gates)
+                    }
                 },
                 (None, None) => Err(Failure::bad("verify needs --spec or --against")),
             }

@@ -13,6 +13,8 @@ pub struct QasmHeader {
     pub method: Option<String>,
     /// The cost report.
     pub cost: Option<Cost>,
+    /// The circuit is the inverse of the spec's map.
+    pub inverse: bool,
 }
 
 /// A circuit that OpenQASM 2 with `qelib1.inc` cannot express as is.
@@ -56,6 +58,11 @@ pub(super) fn write_with(
     }
     if let Some(m) = &header.method {
         let _ = writeln!(s, "// method: {m}");
+    }
+    if header.inverse {
+        s.push_str(
+            "// inverse: this circuit undoes the spec's map (check it with verify --inverse)\n",
+        );
     }
     if let Some(cost) = &header.cost {
         let _ = writeln!(
@@ -147,6 +154,7 @@ impl crate::pipeline::Outcome {
             name: self.name.clone(),
             method: Some(self.method.name().to_string()),
             cost: Some(self.cost.clone()),
+            inverse: self.inverse,
         }
     }
 

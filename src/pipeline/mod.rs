@@ -4,7 +4,7 @@
 mod build;
 mod choose;
 
-pub use build::{build_one, OPTIMIZE_MAX_GATES};
+pub use build::{build_one, invert, OPTIMIZE_MAX_GATES};
 pub use choose::{
     best_of, build, build_with_progress, candidates, compare, tradeoff, TRADEOFF_MAX_NODES,
 };
@@ -81,6 +81,8 @@ pub struct Outcome {
     pub stop: Option<Stop>,
     /// The oracle form to export.
     pub form: OracleForm,
+    /// Whether the circuits are the inverse of the spec's map ([`invert`]).
+    pub inverse: bool,
 }
 
 /// Why a build stopped before a verdict.
@@ -129,6 +131,9 @@ pub struct Report<'a> {
     /// Where the method's search stopped short of a proven optimum.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub stopped: Option<&'a Stop>,
+    /// Present and true when the circuit is the inverse of the spec's map.
+    #[serde(skip_serializing_if = "std::ops::Not::not")]
+    pub inverse: bool,
 }
 
 impl Outcome {
@@ -142,6 +147,7 @@ impl Outcome {
             seconds: self.timings,
             notes: &self.notes,
             stopped: self.stop.as_ref(),
+            inverse: self.inverse,
         }
     }
 }

@@ -6,7 +6,7 @@ use crate::cli::render::{build_failure, stop_hint, Bars};
 use crate::cli::{code, Failure};
 use oraculum::export::json::SynthReport;
 use oraculum::export::listing;
-use oraculum::{build_with_progress, Method, Verdict, Verification};
+use oraculum::{build_with_progress, invert, Method, Verdict, Verification};
 use std::path::Path;
 
 pub fn run(
@@ -28,7 +28,11 @@ pub fn run(
     let output = output.filter(|p| *p != Path::new("-"));
     let spec = load_spec(spec_path)?;
     let opts = limits.build_options(method, !no_verify);
-    let out = build_with_progress(&spec, &opts, &Bars::new(json)).map_err(build_failure)?;
+    let bars = Bars::new(json);
+    let mut out = build_with_progress(&spec, &opts, &bars).map_err(build_failure)?;
+    if form.inverse && !matches!(out.verification, Verification::Ran(Verdict::Refuted { .. })) {
+        out = invert(out, &spec, &opts, &bars).map_err(build_failure)?;
+    }
     if let Verification::Ran(Verdict::Refuted { counterexample }) = &out.verification {
         if json {
             outln!(
@@ -74,7 +78,11 @@ pub fn run(
         Verification::Ran(v) => v.summary(),
         _ => "NOT verified (--no-verify)".to_string(),
     };
-    let mut summary = format!("{label}: method {}, {verdict}\n{}\n", out.method, out.cost);
+    let what = if out.inverse { " (the inverse)" } else { "" };
+    let mut summary = format!(
+        "{label}{what}: method {}, {verdict}\n{}\n",
+        out.method, out.cost
+    );
     for n in &out.notes {
         summary.push_str(&format!("  note: {n}\n"));
     }

@@ -5,7 +5,9 @@ use crate::cli::render::{verify_failure, Bars};
 use crate::cli::{code, Failure};
 use oraculum::export::json::VerifyReport;
 use oraculum::verify::{merge_shards, verify_against, verify_shard, ShardResult};
-use oraculum::{parse_spec, verify_with_progress, Verdict, VerifyOptions};
+use oraculum::{
+    parse_spec, verify_inverse_with_progress, verify_with_progress, Verdict, VerifyOptions,
+};
 use std::path::{Path, PathBuf};
 use std::time::Instant;
 
@@ -29,14 +31,25 @@ pub fn file(
     circuit: &Path,
     spec: &Path,
     json: bool,
+    inverse: bool,
     opts: &VerifyOptions,
     max_gates: usize,
 ) -> Result<i32, Failure> {
     let c = load_circuit(circuit, max_gates)?;
     let s = load_spec(spec)?;
     let t = Instant::now();
-    let verdict = verify_with_progress(&c, &s, opts, &Bars::new(json))
-        .map_err(|e| verify_failure(circuit, e))?;
+    let bars = Bars::new(json);
+    let verdict = if inverse {
+        verify_inverse_with_progress(&c, &s, opts, &bars)
+    } else {
+        verify_with_progress(&c, &s, opts, &bars)
+    }
+    .map_err(|e| verify_failure(circuit, e))?;
+    let against_what = if inverse {
+        format!("the inverse of {}", spec.display())
+    } else {
+        spec.display().to_string()
+    };
     let seconds = t.elapsed().as_secs_f64();
     if json {
         print_json(&VerifyReport {
@@ -45,19 +58,18 @@ pub fn file(
             spec: Some(spec.display().to_string()),
             against: None,
             seconds: Some(seconds),
+            inverse,
         });
     } else {
         match &verdict {
             Verdict::Proven { .. } => outln!(
-                "{}: {} against {}",
+                "{}: {} against {against_what}",
                 circuit.display(),
                 verdict.summary(),
-                spec.display()
             ),
             Verdict::Refuted { counterexample } => outln!(
-                "{}: refuted against {}\n{counterexample}",
+                "{}: refuted against {against_what}\n{counterexample}",
                 circuit.display(),
-                spec.display()
             ),
         }
     }
@@ -82,6 +94,7 @@ pub fn against(
             spec: None,
             against: Some(other.display().to_string()),
             seconds: None,
+            inverse: false,
         });
     } else {
         match &verdict {
