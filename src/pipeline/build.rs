@@ -61,6 +61,7 @@ pub fn build_one(
         stop: synthesis.stop,
         form: spec.form,
         inverse: false,
+        grover: None,
     })
 }
 

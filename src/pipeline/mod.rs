@@ -3,11 +3,13 @@
 
 mod build;
 mod choose;
+mod grover;
 
 pub use build::{build_one, invert, OPTIMIZE_MAX_GATES};
 pub use choose::{
     best_of, build, build_with_progress, candidates, compare, tradeoff, TRADEOFF_MAX_NODES,
 };
+pub use grover::{grover_facts, iterations, Fact, Grover};
 
 use crate::circuit::{Circuit, Cost};
 use crate::limit::Stop;
@@ -83,6 +85,9 @@ pub struct Outcome {
     pub form: OracleForm,
     /// Whether the circuits are the inverse of the spec's map ([`invert`]).
     pub inverse: bool,
+    /// For a one-output function spec: marked inputs, Grover iterations and
+    /// the success probability ([`grover_facts`]).
+    pub grover: Option<Grover>,
 }
 
 /// Why a build stopped before a verdict.
@@ -134,6 +139,10 @@ pub struct Report<'a> {
     /// Present and true when the circuit is the inverse of the spec's map.
     #[serde(skip_serializing_if = "std::ops::Not::not")]
     pub inverse: bool,
+    /// `marked`, `input_bits`, `grover_iterations`, `success_probability`:
+    /// only for one-output function specs.
+    #[serde(flatten, skip_serializing_if = "Option::is_none")]
+    pub grover: Option<&'a Grover>,
 }
 
 impl Outcome {
@@ -148,6 +157,7 @@ impl Outcome {
             notes: &self.notes,
             stopped: self.stop.as_ref(),
             inverse: self.inverse,
+            grover: self.grover.as_ref(),
         }
     }
 }

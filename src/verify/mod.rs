@@ -13,6 +13,7 @@
 //! before the next block, and blocks run in parallel.
 
 mod bind;
+mod count;
 mod eval;
 mod exhaustive;
 mod kernel;
@@ -24,6 +25,7 @@ mod shard;
 mod verdict;
 
 pub use bind::free_lines;
+pub use count::count_marked;
 pub use sat::{circuits_equivalent, sat_equivalence, SatError, SatOutcome, SAT_MAX_TABLE_INPUTS};
 pub use shard::{
     fingerprint, merge_shards, verify_shard, ShardError, ShardResult, MAX_SHARDS, SHARD_FORMAT,

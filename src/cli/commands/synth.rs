@@ -83,6 +83,9 @@ pub fn run(
         "{label}{what}: method {}, {verdict}\n{}\n",
         out.method, out.cost
     );
+    if let Some(g) = &out.grover {
+        summary.push_str(&format!("{g}\n"));
+    }
     for n in &out.notes {
         summary.push_str(&format!("  note: {n}\n"));
     }
