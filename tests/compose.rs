@@ -573,3 +573,181 @@ proptest::proptest! {
         }
     }
 }
+
+/// `[registers]` renames the registers of the written file (function,
+/// permutation and arithmetic specs, ancillae too): no standard name is left,
+/// the file verifies against its spec, and an outside simulator (`qasmsim`)
+/// reads the results from the own registers: the adder's `total` is
+/// `addend + total` (34 + 8 = 42), the comparison's `flag` is the spec's.
+#[test]
+fn own_register_names_are_written_and_read_back() {
+    let dir = workspace();
+    let specs = [
+        (
+            "door.toml",
+            "kind = \"function\"\ninputs = [\"a\", \"b\", \"c\"]\noutputs = [\"open\"]\n[expr]\nopen = \"a & b | c\"\n[registers]\nx = \"key\"\ny = \"flag\"\nanc = \"work\"\n",
+            vec!["key", "flag", "work"],
+        ),
+        (
+            "sum.toml",
+            "kind = \"arithmetic\"\nop = \"add\"\nwidth = 6\ncarry_out = true\n[registers]\na = \"addend\"\nb = \"total\"\ncout = \"carry\"\n",
+            vec!["addend", "total", "carry"],
+        ),
+        (
+            "lamps.toml",
+            "kind = \"permutation\"\nwidth = 3\nimages = [5, 2, 7, 0, 6, 1, 4, 3]\n[registers]\nx = \"lamp\"\n",
+            vec!["lamp"],
+        ),
+    ];
+    for (name, toml, regs) in &specs {
+        std::fs::write(dir.path().join(name), toml).unwrap();
+        let qasm = format!("{name}.qasm");
+        let o = run_in(dir.path(), &["synth", name, "-o", &qasm]);
+        assert_eq!(o.status.code(), Some(0), "{name}: {:?}", text(&o));
+        let t = std::fs::read_to_string(dir.path().join(&qasm)).unwrap();
+        for r in regs {
+            assert!(t.contains(&format!("qreg {r}[")), "{t}");
+        }
+        // The standard names the spec renames are gone.
+        let renamed = toml.split("[registers]\n").nth(1).unwrap();
+        for line in renamed.lines() {
+            let std_name = line.split(" = ").next().unwrap();
+            assert!(!t.contains(&format!("qreg {std_name}[")), "{name}: {t}");
+        }
+        let o = run_in(dir.path(), &["verify", &qasm, "--spec", name]);
+        assert_eq!(o.status.code(), Some(0), "{name}: {:?}", text(&o));
+        // The same file in gate form verifies too.
+        let o = run_in(
+            dir.path(),
+            &["synth", name, "-o", "g.qasm", "--as-gate", "step"],
+        );
+        assert_eq!(o.status.code(), Some(0), "{name}: {:?}", text(&o));
+        let o = run_in(dir.path(), &["verify", "g.qasm", "--spec", name]);
+        assert_eq!(o.status.code(), Some(0), "{name}: {:?}", text(&o));
+    }
+    let door = std::fs::read_to_string(dir.path().join("door.toml.qasm")).unwrap();
+    for x in 0..8u64 {
+        let set: Vec<(String, usize)> = (0..3)
+            .filter(|j| (x >> j) & 1 == 1)
+            .map(|j| ("key".to_string(), j))
+            .collect();
+        let r = common::qasmsim_run(&door, &set);
+        let want = (x & 1 == 1 && x & 2 == 2) || x & 4 == 4;
+        assert_eq!(r["flag"], want as u64, "input {x}");
+        assert_eq!(r["key"], x);
+        assert!(r.get("work").is_none_or(|&w| w == 0));
+    }
+    let sum = std::fs::read_to_string(dir.path().join("sum.toml.qasm")).unwrap();
+    let bits = |reg: &str, v: u64| -> Vec<(String, usize)> {
+        (0..6)
+            .filter(|j| (v >> j) & 1 == 1)
+            .map(|j| (reg.to_string(), j))
+            .collect()
+    };
+    let mut set = bits("addend", 34);
+    set.extend(bits("total", 8));
+    let r = common::qasmsim_run(&sum, &set);
+    assert_eq!((r["addend"], r["total"], r["carry"]), (34, 42, 0));
+    let mut set = bits("addend", 40);
+    set.extend(bits("total", 30));
+    let r = common::qasmsim_run(&sum, &set);
+    // 40 + 30 = 70 = 64 + 6: carry 1, total 6.
+    assert_eq!((r["total"], r["carry"]), (6, 1));
+}
+
+/// A file from elsewhere with other register names: refused with exit 2
+/// until `--registers` says which is which; then proven, and a wrong mapping
+/// (inputs and output swapped) is not proven.
+#[test]
+fn verify_binds_other_names_with_registers() {
+    let dir = workspace();
+    let o = run_in(
+        dir.path(),
+        &["synth", "specs/greenhouse.toml", "-o", "g.qasm"],
+    );
+    assert_eq!(o.status.code(), Some(0), "{:?}", text(&o));
+    let g = std::fs::read_to_string(dir.path().join("g.qasm")).unwrap();
+    let other = g
+        .replace("x[", "sensor[")
+        .replace("y[", "act[")
+        .replace("anc[", "scratch[");
+    std::fs::write(dir.path().join("other.qasm"), &other).unwrap();
+    let o = run_in(
+        dir.path(),
+        &["verify", "other.qasm", "--spec", "specs/greenhouse.toml"],
+    );
+    assert_eq!(o.status.code(), Some(2), "{:?}", text(&o));
+    let args = [
+        "verify",
+        "other.qasm",
+        "--spec",
+        "specs/greenhouse.toml",
+        "--registers",
+    ];
+    let o = run_in(
+        dir.path(),
+        &[&args[..], &["sensor=x,act=y,scratch=anc"]].concat(),
+    );
+    assert_eq!(o.status.code(), Some(0), "{:?}", text(&o));
+    assert!(text(&o).0.contains("verified"), "{:?}", text(&o));
+    // Not a register of the file; malformed; two registers onto one name.
+    for bad in [
+        "sensor=x,act=y,nope=anc",
+        "sensor",
+        "sensor=x,act=x,scratch=anc",
+    ] {
+        let o = run_in(dir.path(), &[&args[..], &[bad]].concat());
+        assert_eq!(o.status.code(), Some(2), "{bad}: {:?}", text(&o));
+    }
+    // A spec's own names are applied to a file that has them.
+    let own = std::fs::read_to_string(dir.path().join("specs/greenhouse.toml")).unwrap()
+        + "[registers]\nx = \"sensor\"\ny = \"act\"\nanc = \"scratch\"\n";
+    std::fs::write(dir.path().join("own.toml"), own).unwrap();
+    let o = run_in(dir.path(), &["verify", "other.qasm", "--spec", "own.toml"]);
+    assert_eq!(o.status.code(), Some(0), "{:?}", text(&o));
+    // The wrong way round: a three-line input register cannot be the outputs.
+    let o = run_in(
+        dir.path(),
+        &[&args[..], &["sensor=y,act=x,scratch=anc"]].concat(),
+    );
+    assert_ne!(o.status.code(), Some(0), "{:?}", text(&o));
+}
+
+/// Bad `[registers]` tables, each refused at its line and column.
+#[test]
+fn bad_register_tables_are_refused_at_their_place() {
+    let head = "kind = \"function\"\ninputs = [\"a\"]\noutputs = [\"f\"]\n[expr]\nf = \"a\"\n[registers]\n";
+    let cases = [
+        ("z = \"key\"\n", (7, 1), "not a register of this spec"),
+        ("x = \"Key\"\n", (7, 5), "cannot name a register"),
+        ("x = \"qreg\"\n", (7, 5), "cannot name a register"),
+        (
+            "x = \"flag\"\ny = \"flag\"\n",
+            (8, 5),
+            "two registers would be named 'flag'",
+        ),
+        ("x = \"y\"\n", (7, 5), "two registers would be named 'y'"),
+        ("a = \"key\"\n", (7, 1), "its registers are x, y, anc"),
+    ];
+    for (body, (line, col), msg) in cases {
+        let e = oraculum::parse_spec("t.toml", &format!("{head}{body}")).unwrap_err();
+        assert_eq!(
+            (e.location.line, e.location.column),
+            (line, col),
+            "{body}: {e}"
+        );
+        assert!(e.to_string().contains(msg), "{body}: {e}");
+    }
+    // Swapping two names is one renaming, and allowed.
+    let s = oraculum::parse_spec("t.toml", &format!("{head}x = \"y\"\ny = \"x\"\n")).unwrap();
+    assert_eq!(s.register_name("x"), "y");
+    // The arithmetic registers take own names, the kind's own only.
+    let arith = "kind = \"arithmetic\"\nop = \"less_than\"\nwidth = 4\n[registers]\n";
+    assert!(oraculum::parse_spec(
+        "t.toml",
+        &format!("{arith}a = \"left\"\nb = \"right\"\ny = \"less\"\n")
+    )
+    .is_ok());
+    let e = oraculum::parse_spec("t.toml", &format!("{arith}cout = \"c\"\n")).unwrap_err();
+    assert_eq!((e.location.line, e.location.column), (5, 1), "{e}");
+}

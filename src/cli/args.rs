@@ -82,6 +82,9 @@ pub enum Command {
         /// Prove the circuit realizes the inverse of the spec's map.
         #[arg(long, requires = "spec", conflicts_with = "shard")]
         inverse: bool,
+        /// The file's register names and the spec's registers they stand for, e.g. key=x,flag=y (the spec's [registers] are applied too).
+        #[arg(long, value_name = "NAME=REGISTER,...", requires = "spec")]
+        registers: Option<String>,
         /// Print the verdict as one JSON object.
         #[arg(long)]
         json: bool,

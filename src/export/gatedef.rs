@@ -44,14 +44,8 @@ impl Defs {
 }
 
 /// Names a gate definition may not take: the statements and functions of
-/// OpenQASM 2 and the gates of `qelib1.inc`.
-const RESERVED: &[&str] = &[
-    "OPENQASM", "include", "qreg", "creg", "gate", "opaque", "barrier", "measure", "reset", "if",
-    "pi", "sin", "cos", "tan", "exp", "ln", "sqrt", "U", "CX", "u3", "u2", "u1", "u0", "u", "p",
-    "cx", "id", "x", "y", "z", "h", "s", "sdg", "t", "tdg", "rx", "ry", "rz", "sx", "sxdg", "cz",
-    "cy", "swap", "ch", "ccx", "cswap", "crx", "cry", "crz", "cu1", "cp", "cu3", "csx", "cu",
-    "rxx", "rzz", "rccx", "rc3x", "c3x", "c3sqrtx", "c4x",
-];
+/// OpenQASM 2 and 3 and their standard gates.
+use crate::circuit::layout::QASM_WORDS as RESERVED;
 
 fn is_identifier(s: &str) -> bool {
     let mut chars = s.chars();

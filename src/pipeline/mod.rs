@@ -146,6 +146,15 @@ pub struct Report<'a> {
 }
 
 impl Outcome {
+    /// Gives the registers the spec's own names (`[registers]`), before and
+    /// after lowering, for the files and drawings made of the outcome.
+    pub fn rename_registers(&mut self, map: &[(String, String)]) {
+        if !map.is_empty() {
+            self.mct = self.mct.with_registers_renamed(map);
+            self.lowered = self.lowered.with_registers_renamed(map);
+        }
+    }
+
     /// The JSON-ready report.
     pub fn report(&self) -> Report<'_> {
         Report {

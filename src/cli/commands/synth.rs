@@ -33,6 +33,7 @@ pub fn run(
     if form.inverse && !matches!(out.verification, Verification::Ran(Verdict::Refuted { .. })) {
         out = invert(out, &spec, &opts, &bars).map_err(build_failure)?;
     }
+    out.rename_registers(&spec.registers);
     if let Verification::Ran(Verdict::Refuted { counterexample }) = &out.verification {
         if json {
             outln!(

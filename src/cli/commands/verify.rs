@@ -1,6 +1,8 @@
 //! `oraculum verify` (against a spec, a shard of it, or another circuit) and `oraculum merge`.
 
-use crate::cli::files::{load_circuit, load_spec, parse_circuit, read_text, write_atomic};
+use crate::cli::files::{
+    load_circuit, load_spec, parse_circuit, read_text, standard_names, write_atomic,
+};
 use crate::cli::render::{verify_failure, Bars};
 use crate::cli::{code, Failure};
 use oraculum::export::json::VerifyReport;
@@ -33,10 +35,10 @@ pub fn file(
     json: bool,
     inverse: bool,
     opts: &VerifyOptions,
-    max_gates: usize,
+    (max_gates, names): (usize, &[(String, String)]),
 ) -> Result<i32, Failure> {
-    let c = load_circuit(circuit, max_gates)?;
     let s = load_spec(spec)?;
+    let c = standard_names(circuit, load_circuit(circuit, max_gates)?, &s, names)?;
     let t = Instant::now();
     let bars = Bars::new(json);
     let verdict = if inverse {
@@ -136,13 +138,18 @@ pub fn shard(
     shard: &str,
     output: Option<&Path>,
     opts: &VerifyOptions,
-    max_gates: usize,
+    (max_gates, names): (usize, &[(String, String)]),
 ) -> Result<i32, Failure> {
     let (k, n) = parse_shard(shard)?;
     let circuit_text = read_text(circuit)?;
     let spec_text = read_text(spec)?;
-    let c = parse_circuit(circuit, &circuit_text, max_gates)?;
     let s = parse_spec(&spec.display().to_string(), &spec_text)?;
+    let c = standard_names(
+        circuit,
+        parse_circuit(circuit, &circuit_text, max_gates)?,
+        &s,
+        names,
+    )?;
     let r = verify_shard(
         &c,
         &s,
@@ -174,8 +181,13 @@ pub fn shard(
 pub fn merge(paths: &[PathBuf], circuit: &Path, spec: &Path, json: bool) -> Result<i32, Failure> {
     let circuit_text = read_text(circuit)?;
     let spec_text = read_text(spec)?;
-    let c = parse_circuit(circuit, &circuit_text, oraculum::export::DEFAULT_MAX_GATES)?;
     let s = parse_spec(&spec.display().to_string(), &spec_text)?;
+    let c = standard_names(
+        circuit,
+        parse_circuit(circuit, &circuit_text, oraculum::export::DEFAULT_MAX_GATES)?,
+        &s,
+        &[],
+    )?;
     let mut results = Vec::new();
     for p in paths {
         let text = read_text(p)?;
