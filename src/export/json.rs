@@ -83,6 +83,9 @@ pub struct CompareReport<'a> {
     pub best: Option<&'static str>,
     /// Qubits against Toffolis, bennett with a qubit budget.
     pub tradeoff: Vec<TradeoffPoint>,
+    /// Why there is no trade-off curve, when a limit skipped it.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub tradeoff_note: Option<String>,
 }
 
 impl<'a> CompareReport<'a> {
@@ -116,6 +119,7 @@ impl<'a> CompareReport<'a> {
                     verified: o.verification.is_proven(),
                 })
                 .collect(),
+            tradeoff_note: None,
         }
     }
 }

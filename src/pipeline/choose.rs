@@ -115,8 +115,10 @@ pub const TRADEOFF_MAX_NODES: usize = 200;
 
 /// Bennett's qubit/Toffoli trade-off for a function spec: plain Bennett, then
 /// one qubit fewer at a time until no schedule fits (or a network too large to
-/// schedule, past [`TRADEOFF_MAX_NODES`] nodes, stops it). Each point is
-/// verified as `opts` says.
+/// schedule, past [`TRADEOFF_MAX_NODES`] nodes, stops it: [`tradeoff_note`]
+/// says so). Each point is verified as `opts` says. Only the points no
+/// smaller point beats are kept: along the curve, more qubits always buy
+/// fewer Toffolis (a circuit within fewer qubits fits a larger budget too).
 pub fn tradeoff(spec: &Spec, opts: &BuildOptions) -> Vec<Outcome> {
     let SpecBody::Function(f) = &spec.body else {
         return Vec::new();
@@ -146,7 +148,30 @@ pub fn tradeoff(spec: &Spec, opts: &BuildOptions) -> Vec<Outcome> {
             Err(_) => break,
         }
     }
-    points
+    // From the fewest qubits up, keep a point only when it beats every
+    // point below it.
+    let mut front: Vec<Outcome> = Vec::with_capacity(points.len());
+    for p in points.into_iter().rev() {
+        if front.last().is_none_or(|b| p.cost.toffoli < b.cost.toffoli) {
+            front.push(p);
+        }
+    }
+    front.reverse();
+    front
+}
+
+/// Why [`tradeoff`] gives no curve for `spec`, when the reason is a limit.
+pub fn tradeoff_note(spec: &Spec) -> Option<String> {
+    let SpecBody::Function(f) = &spec.body else {
+        return None;
+    };
+    let net = network_of(f).ok()?;
+    (net.gates() > TRADEOFF_MAX_NODES).then(|| {
+        format!(
+            "the qubit trade-off curve is skipped: the network has {} nodes, more than {TRADEOFF_MAX_NODES}",
+            net.gates()
+        )
+    })
 }
 
 /// The ranking of `auto` and `compare`: within the qubit budget, then

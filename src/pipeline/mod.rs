@@ -7,7 +7,8 @@ mod grover;
 
 pub use build::{build_one, invert, OPTIMIZE_MAX_GATES};
 pub use choose::{
-    best_of, build, build_with_progress, candidates, compare, tradeoff, TRADEOFF_MAX_NODES,
+    best_of, build, build_with_progress, candidates, compare, tradeoff, tradeoff_note,
+    TRADEOFF_MAX_NODES,
 };
 pub use grover::{grover_facts, iterations, Fact, Grover};
 

@@ -6,6 +6,7 @@
 
 mod arith;
 mod bennett;
+mod checkpoints;
 mod esop;
 mod esop_exact;
 mod exact;
