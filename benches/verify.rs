@@ -114,7 +114,8 @@ fn main() {
     );
 
     // SAT equivalence of adders.
-    for w in [16usize, 32, 64] {
+    for w in [16usize, 64, 256, 1024, 2048, 4096, 8192] {
+        let runs = if w <= 256 { 3 } else { 1 };
         let s = parse_spec(
             "add",
             &format!("kind = \"arithmetic\"\nop = \"add\"\nwidth = {w}\ncarry_out = true\n"),
@@ -134,14 +135,14 @@ fn main() {
             route: Route::Sat,
             ..VerifyOptions::default()
         };
-        let (t, v) = best_of(3, || verify(&o.lowered, &s, &sat).unwrap());
+        let (t, v) = best_of(runs, || verify(&o.lowered, &s, &sat).unwrap());
         assert!(matches!(v, Verdict::Proven { by: "sat", .. }));
         let mut bad = o.lowered.clone();
         let mut g = bad.gates().to_vec();
         let k = g.iter().position(|x| x.controls().len() == 2).unwrap() + 2 * w / 3;
         g.remove(k);
         bad.set_gates(g);
-        let (tb, vb) = best_of(3, || verify(&bad, &s, &sat).unwrap());
+        let (tb, vb) = best_of(runs, || verify(&bad, &s, &sat).unwrap());
         assert!(matches!(vb, Verdict::Refuted { .. }));
         println!("SAT, {w}-bit adder with carry-out: proven in {t:.3} s; a dropped gate refuted in {tb:.3} s");
     }

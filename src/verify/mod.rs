@@ -22,6 +22,7 @@ mod reference;
 mod ripple;
 mod sat;
 mod shard;
+mod sweep;
 mod verdict;
 
 pub use bind::free_lines;
