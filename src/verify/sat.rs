@@ -10,6 +10,11 @@
 //! ancilla ends at 1: unsatisfiable proves the circuit correct on every basis
 //! state; a model is a counterexample, which is then confirmed by simulating
 //! the circuit alone.
+//!
+//! Before the solver runs, the miter is swept (`sweep.rs`): signals proven
+//! equal signal by signal on small cuts, so a ripple structure needs no
+//! global solve, and a random pattern that separates circuit and spec is the
+//! counterexample. The solver gets what the sweep left, with its equalities.
 
 use super::bind::{bind, Binding};
 use super::eval::Compiled;
