@@ -22,9 +22,90 @@ pub fn read_text(path: &Path) -> Result<String, Failure> {
         .map_err(|e| Failure::bad(format!("{}: cannot read: {e}", path.display())))
 }
 
+/// Reads a spec: a TOML spec, or a design file (`.blif`, `.aag`, `.aig`,
+/// `.pla`, `.cnf`) taken as an xor oracle of its outputs.
 pub fn load_spec(path: &Path) -> Result<Spec, Failure> {
+    if is_design_file(path) {
+        return load_design(path);
+    }
     let text = read_text(path)?;
     Ok(parse_spec(&path.display().to_string(), &text)?)
+}
+
+/// Whether `path` names a design file by its extension (case ignored).
+fn is_design_file(path: &Path) -> bool {
+    path.extension()
+        .and_then(|e| e.to_str())
+        .map(|e| e.to_ascii_lowercase())
+        .is_some_and(|e| matches!(e.as_str(), "blif" | "aag" | "aig" | "pla" | "cnf"))
+}
+
+/// Reads a design file into a function spec: inputs `x` in the file's
+/// order, outputs `y` in the file's order, each output an expression over
+/// the netlist's nodes (shared). Don't-care sets are not yet used and are
+/// refused rather than dropped silently.
+fn load_design(path: &Path) -> Result<Spec, Failure> {
+    use oraculum::logic::Dag;
+    use oraculum::netlist::{
+        read_netlist, NodeKind, ReadError as NetError, ReadLimits as NetLimits,
+    };
+    use oraculum::spec::{FunctionSpec, OracleForm, Output, OutputDef, SpecBody};
+    let name = path.display().to_string();
+    let bytes =
+        std::fs::read(path).map_err(|e| Failure::bad(format!("{name}: cannot read: {e}")))?;
+    let netlist = read_netlist(&name, &bytes, &NetLimits::default()).map_err(|e| match e {
+        NetError::Malformed(e) => Failure::from(e),
+        NetError::Limit { .. } => Failure::with_code(code::LIMIT, format!("{name}: {e}")),
+    })?;
+    if netlist.outputs().iter().any(|o| o.dont_care.is_some()) {
+        return Err(Failure::bad(format!(
+            "{name}: don't-care outputs are not yet supported (give a type f cover)"
+        )));
+    }
+    let mut dag = Dag::new();
+    let mut id_of = Vec::with_capacity(netlist.signal_count());
+    id_of.push(dag.constant(false));
+    for j in 0..netlist.input_count() {
+        id_of.push(dag.var(j as u32));
+    }
+    let mut ops = Vec::new();
+    for i in 0..netlist.node_count() {
+        let (kind, fanins) = netlist.node(i);
+        ops.clear();
+        for &e in fanins {
+            let id = id_of[e.signal()];
+            ops.push(if e.complemented() { dag.not(id) } else { id });
+        }
+        let id = match kind {
+            NodeKind::And => dag.and(&ops),
+            NodeKind::Or => dag.or(&ops),
+            NodeKind::Xor => dag.xor(&ops),
+        };
+        id_of.push(id);
+    }
+    let mut outputs = Vec::with_capacity(netlist.outputs().len());
+    for o in netlist.outputs() {
+        let id = id_of[o.edge.signal()];
+        let id = if o.edge.complemented() {
+            dag.not(id)
+        } else {
+            id
+        };
+        outputs.push(Output {
+            name: o.name.clone(),
+            def: OutputDef::Expr(id),
+        });
+    }
+    let stem = path.file_stem().map(|s| s.to_string_lossy().into_owned());
+    Ok(Spec {
+        name: stem,
+        body: SpecBody::Function(FunctionSpec {
+            inputs: netlist.inputs().to_vec(),
+            outputs,
+            dag,
+        }),
+        form: OracleForm::Xor,
+    })
 }
 
 /// Reads an OpenQASM 2 file within `max_gates` gates.
