@@ -22,7 +22,7 @@ const ALLOWED: &[(&str, &[&str])] = &[
     ("progress", &["exact"]),
     ("xag", &[]),
     ("netlist", &["source", "logic"]),
-    ("spec", &["source", "logic", "circuit"]),
+    ("spec", &["source", "logic", "circuit", "netlist"]),
     ("lower", &["circuit"]),
     ("mutate", &["circuit"]),
     ("opt", &["circuit", "exact", "lower"]),

@@ -776,3 +776,93 @@ fn epfl_aiger_file_synthesizes_and_verifies() {
     let v: serde_json::Value = serde_json::from_str(&out).unwrap();
     assert_eq!(v["verification"]["verdict"], "proven");
 }
+
+/// A `kind = "netlist"` spec names a design file (taken from the spec's
+/// folder) and selects outputs in its own order: the BLIF full adder with
+/// carry first, then sum (carry = majority, sum = parity; common practice),
+/// run by the outside simulator; the carry alone as a phase oracle is
+/// synthesized and verified.
+#[test]
+fn netlist_spec_selects_outputs_of_a_design_file() {
+    let dir = tempfile::tempdir().unwrap();
+    std::fs::create_dir(dir.path().join("specs")).unwrap();
+    let blif = ".model full_adder\n.inputs a b c\n.outputs s co\n\
+                .names a b c s\n100 1\n010 1\n001 1\n111 1\n\
+                .names a b c co\n11- 1\n1-1 1\n-11 1\n.end\n";
+    std::fs::write(dir.path().join("specs/fa.blif"), blif).unwrap();
+    let spec = "kind = \"netlist\"\nfile = \"fa.blif\"\noutputs = [\"co\", \"s\"]\n";
+    std::fs::write(dir.path().join("specs/swap.toml"), spec).unwrap();
+    let o = run_in(dir.path(), &["synth", "specs/swap.toml", "-o", "swap.qasm"]);
+    assert_eq!(o.status.code(), Some(0), "{:?}", text(&o));
+    let qasm = std::fs::read_to_string(dir.path().join("swap.qasm")).unwrap();
+    for x in 0..8usize {
+        let set: Vec<(String, usize)> = (0..3)
+            .filter(|j| (x >> j) & 1 == 1)
+            .map(|j| ("x".to_string(), j))
+            .collect();
+        let got = qasmsim_run(&qasm, &set);
+        let ones = x.count_ones() as u64;
+        let want = u64::from(ones >= 2) | ((ones & 1) << 1);
+        assert_eq!(got["y"], want, "input {x:03b}");
+    }
+    let phase = "kind = \"netlist\"\nfile = \"fa.blif\"\noutputs = [\"co\"]\n\
+                 [oracle]\nform = \"phase\"\n";
+    std::fs::write(dir.path().join("specs/carry.toml"), phase).unwrap();
+    let o = run_in(
+        dir.path(),
+        &["synth", "specs/carry.toml", "-o", "carry.qasm"],
+    );
+    assert_eq!(o.status.code(), Some(0), "{:?}", text(&o));
+    let o = run_in(
+        dir.path(),
+        &["verify", "carry.qasm", "--spec", "specs/carry.toml"],
+    );
+    assert_eq!(o.status.code(), Some(0), "{:?}", text(&o));
+}
+
+/// A netlist spec's mistakes are placed: a missing file at its `file` value,
+/// an unknown output at its name in the selection, a phase oracle of two
+/// outputs, a malformed design at its place in the design file; exit 2.
+#[test]
+fn netlist_spec_errors_are_located() {
+    let dir = tempfile::tempdir().unwrap();
+    let blif = ".model fa\n.inputs a b c\n.outputs s co\n\
+                .names a b c s\n100 1\n010 1\n001 1\n111 1\n\
+                .names a b c co\n11- 1\n1-1 1\n-11 1\n.end\n";
+    std::fs::write(dir.path().join("fa.blif"), blif).unwrap();
+    std::fs::write(
+        dir.path().join("bad.blif"),
+        ".model m\n.inputs a\n.outputs y\n.names a q y\n1 1\n.end\n",
+    )
+    .unwrap();
+    let cases: [(&str, &str, &str); 4] = [
+        (
+            "kind = \"netlist\"\nfile = \"none.blif\"\n",
+            "s.toml:2:8",
+            "cannot read",
+        ),
+        (
+            "kind = \"netlist\"\nfile = \"fa.blif\"\noutputs = [\"s\", \"cout\"]\n",
+            "s.toml:3:17",
+            "no output 'cout'",
+        ),
+        (
+            "kind = \"netlist\"\nfile = \"fa.blif\"\n[oracle]\nform = \"phase\"\n",
+            "s.toml:4:8",
+            "",
+        ),
+        (
+            "kind = \"netlist\"\nfile = \"bad.blif\"\n",
+            "bad.blif:5:",
+            "",
+        ),
+    ];
+    for (spec, place, words) in cases {
+        std::fs::write(dir.path().join("s.toml"), spec).unwrap();
+        let o = run_in(dir.path(), &["synth", "s.toml"]);
+        let (_, err) = text(&o);
+        assert_eq!(o.status.code(), Some(2), "{spec}: {err}");
+        assert!(err.contains(place), "{spec}: {err}");
+        assert!(err.contains(words), "{spec}: {err}");
+    }
+}

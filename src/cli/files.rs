@@ -2,7 +2,9 @@
 
 use super::{code, render, Failure};
 use oraculum::export::{read_qasm_with, ReadError, ReadLimits};
-use oraculum::{parse_spec, Circuit, Spec};
+use oraculum::netlist::{read_netlist, ReadError as NetError, ReadLimits as NetLimits};
+use oraculum::spec::{netlist_function, parse_spec_with, SpecLoadError};
+use oraculum::{Circuit, OracleForm, Spec, SpecBody};
 use std::io::Write;
 use std::path::{Path, PathBuf};
 use std::sync::Mutex;
@@ -22,14 +24,40 @@ pub fn read_text(path: &Path) -> Result<String, Failure> {
         .map_err(|e| Failure::bad(format!("{}: cannot read: {e}", path.display())))
 }
 
-/// Reads a spec: a TOML spec, or a design file (`.blif`, `.aag`, `.aig`,
-/// `.pla`, `.cnf`) taken as an xor oracle of its outputs.
+/// Reads a spec: a TOML spec (a `kind = "netlist"` spec's `file` taken
+/// from the spec's folder when relative), or a design file (`.blif`,
+/// `.aag`, `.aig`, `.pla`, `.cnf`) taken as an xor oracle of its outputs.
 pub fn load_spec(path: &Path) -> Result<Spec, Failure> {
     if is_design_file(path) {
         return load_design(path);
     }
     let text = read_text(path)?;
-    Ok(parse_spec(&path.display().to_string(), &text)?)
+    let folder = path.parent().map(Path::to_path_buf).unwrap_or_default();
+    let mut read = |file: &str| {
+        let p = folder.join(file);
+        std::fs::read(&p)
+            .map(|b| (p.display().to_string(), b))
+            .map_err(|e| e.to_string())
+    };
+    parse_spec_with(
+        &path.display().to_string(),
+        &text,
+        &mut read,
+        &NetLimits::default(),
+    )
+    .map_err(|e| match e {
+        SpecLoadError::Spec(e) => Failure::from(e),
+        SpecLoadError::Design(e) => design_failure(e),
+    })
+}
+
+/// A design file's read error: malformed at its place (exit 2), or over a
+/// reader limit (exit 3).
+fn design_failure(e: NetError) -> Failure {
+    match e {
+        NetError::Malformed(e) => Failure::from(e),
+        e @ NetError::Limit { .. } => Failure::with_code(code::LIMIT, e.to_string()),
+    }
 }
 
 /// Whether `path` names a design file by its extension (case ignored).
@@ -40,70 +68,20 @@ fn is_design_file(path: &Path) -> bool {
         .is_some_and(|e| matches!(e.as_str(), "blif" | "aag" | "aig" | "pla" | "cnf"))
 }
 
-/// Reads a design file into a function spec: inputs `x` in the file's
-/// order, outputs `y` in the file's order, each output an expression over
-/// the netlist's nodes (shared). Don't-care sets are not yet used and are
-/// refused rather than dropped silently.
+/// Reads a design file into a function spec (see `netlist_function`):
+/// inputs `x` and outputs `y` in the file's order, named as in the file.
 fn load_design(path: &Path) -> Result<Spec, Failure> {
-    use oraculum::logic::Dag;
-    use oraculum::netlist::{
-        read_netlist, NodeKind, ReadError as NetError, ReadLimits as NetLimits,
-    };
-    use oraculum::spec::{FunctionSpec, OracleForm, Output, OutputDef, SpecBody};
     let name = path.display().to_string();
     let bytes =
         std::fs::read(path).map_err(|e| Failure::bad(format!("{name}: cannot read: {e}")))?;
     let netlist = read_netlist(&name, &bytes, &NetLimits::default()).map_err(|e| match e {
-        NetError::Malformed(e) => Failure::from(e),
-        NetError::Limit { .. } => Failure::with_code(code::LIMIT, format!("{name}: {e}")),
+        e @ NetError::Limit { .. } => Failure::with_code(code::LIMIT, format!("{name}: {e}")),
+        e => design_failure(e),
     })?;
-    if netlist.outputs().iter().any(|o| o.dont_care.is_some()) {
-        return Err(Failure::bad(format!(
-            "{name}: don't-care outputs are not yet supported (give a type f cover)"
-        )));
-    }
-    let mut dag = Dag::new();
-    let mut id_of = Vec::with_capacity(netlist.signal_count());
-    id_of.push(dag.constant(false));
-    for j in 0..netlist.input_count() {
-        id_of.push(dag.var(j as u32));
-    }
-    let mut ops = Vec::new();
-    for i in 0..netlist.node_count() {
-        let (kind, fanins) = netlist.node(i);
-        ops.clear();
-        for &e in fanins {
-            let id = id_of[e.signal()];
-            ops.push(if e.complemented() { dag.not(id) } else { id });
-        }
-        let id = match kind {
-            NodeKind::And => dag.and(&ops),
-            NodeKind::Or => dag.or(&ops),
-            NodeKind::Xor => dag.xor(&ops),
-        };
-        id_of.push(id);
-    }
-    let mut outputs = Vec::with_capacity(netlist.outputs().len());
-    for o in netlist.outputs() {
-        let id = id_of[o.edge.signal()];
-        let id = if o.edge.complemented() {
-            dag.not(id)
-        } else {
-            id
-        };
-        outputs.push(Output {
-            name: o.name.clone(),
-            def: OutputDef::Expr(id),
-        });
-    }
-    let stem = path.file_stem().map(|s| s.to_string_lossy().into_owned());
+    let f = netlist_function(&netlist, None).map_err(|e| Failure::bad(format!("{name}: {e}")))?;
     Ok(Spec {
-        name: stem,
-        body: SpecBody::Function(FunctionSpec {
-            inputs: netlist.inputs().to_vec(),
-            outputs,
-            dag,
-        }),
+        name: path.file_stem().map(|s| s.to_string_lossy().into_owned()),
+        body: SpecBody::Function(f),
         form: OracleForm::Xor,
     })
 }

@@ -9,14 +9,17 @@ mod arith;
 mod error;
 mod function;
 mod layout;
+mod netlist;
 mod raw;
 
 pub use error::{SpecError, SpecErrorKind};
 pub use layout::permutation_layout;
+pub use netlist::{netlist_function, DesignIssue};
 
 use crate::logic::{program, Dag, NodeId, Permutation, PermutationError, TruthTable};
+use crate::netlist::{read_netlist, ReadError, ReadLimits};
 use crate::source::Source;
-use raw::{RawArithmetic, RawFunction, RawOracle, RawPermutation};
+use raw::{RawArithmetic, RawFunction, RawNetlist, RawOracle, RawPermutation};
 use std::ops::Range;
 use toml::Spanned;
 
@@ -176,18 +179,64 @@ pub const MAX_PERMUTATION_LINES: usize = 16;
 pub const MAX_ARITH_WIDTH: usize = 1 << 16;
 
 /// The kinds of spec and the struct that reads each.
-const KINDS: [&str; 3] = ["function", "permutation", "arithmetic"];
+const KINDS: [&str; 4] = ["function", "permutation", "arithmetic", "netlist"];
 
 fn kind_keys(kind: &str) -> &'static [&'static str] {
     match kind {
         "function" => raw::keys::<RawFunction>(),
         "permutation" => raw::keys::<RawPermutation>(),
+        "netlist" => raw::keys::<RawNetlist>(),
         _ => raw::keys::<RawArithmetic>(),
     }
 }
 
-/// Parses and validates a spec. `path` is only used in messages.
+/// Why a spec that may name a design file could not be read.
+#[derive(Clone, Debug, PartialEq, Eq, thiserror::Error)]
+pub enum SpecLoadError {
+    /// The spec itself is wrong (at its place in the spec file).
+    #[error("{0}")]
+    Spec(SpecError),
+    /// The design file it names is malformed (at its place in that file)
+    /// or over a reader limit.
+    #[error("{0}")]
+    Design(ReadError),
+}
+
+impl From<SpecError> for SpecLoadError {
+    fn from(e: SpecError) -> Self {
+        SpecLoadError::Spec(e)
+    }
+}
+
+/// Reads the bytes of the design file a spec names: given the `file` value
+/// as written, the path to show in messages and the contents, or why not.
+pub type FileReader<'a> = dyn FnMut(&str) -> Result<(String, Vec<u8>), String> + 'a;
+
+/// Parses and validates a spec. `path` is only used in messages. A
+/// `kind = "netlist"` spec is refused here ([`SpecErrorKind::NoFileReader`]):
+/// the library reads no files; [`parse_spec_with`] takes a reader.
 pub fn parse_spec(path: &str, text: &str) -> Result<Spec, SpecError> {
+    parse_spec_with(
+        path,
+        text,
+        &mut |_| Err(String::new()),
+        &ReadLimits::default(),
+    )
+    .map_err(|e| match e {
+        SpecLoadError::Spec(e) => e,
+        SpecLoadError::Design(_) => unreachable!("no file is read"),
+    })
+}
+
+/// Parses and validates a spec; a `kind = "netlist"` spec's design file is
+/// read through `read` (an empty reason means no files can be read) and
+/// parsed within `limits`.
+pub fn parse_spec_with(
+    path: &str,
+    text: &str,
+    read: &mut FileReader<'_>,
+    limits: &ReadLimits,
+) -> Result<Spec, SpecLoadError> {
     let src = Source { path, text };
     let toml_error = |e: toml::de::Error| {
         let span = e.span().unwrap_or(0..0);
@@ -203,19 +252,23 @@ pub fn parse_spec(path: &str, text: &str) -> Result<Spec, SpecError> {
         .find(|(k, _)| k.get_ref() == "kind")
         .map(|(_, v)| v);
     let Some(kind) = kind else {
-        return Err(src.error_at(0..0, SpecErrorKind::NoKind));
+        return Err(src.error_at(0..0, SpecErrorKind::NoKind).into());
     };
     let kind_name = match kind.get_ref() {
         toml::de::DeValue::String(s) => s.to_string(),
         _ => {
-            return Err(src.error_at(
-                kind.span(),
-                SpecErrorKind::Toml("'kind' is a string".into()),
-            ))
+            return Err(src
+                .error_at(
+                    kind.span(),
+                    SpecErrorKind::Toml("'kind' is a string".into()),
+                )
+                .into())
         }
     };
     if !KINDS.contains(&kind_name.as_str()) {
-        return Err(src.error_at(kind.span(), SpecErrorKind::UnknownKind(kind_name)));
+        return Err(src
+            .error_at(kind.span(), SpecErrorKind::UnknownKind(kind_name))
+            .into());
     }
     // Keys of another kind get a message of their own; unknown keys list the kind's.
     let keys = kind_keys(&kind_name);
@@ -239,7 +292,7 @@ pub fn parse_spec(path: &str, text: &str) -> Result<Spec, SpecError> {
                 keys: keys.to_vec(),
             }
         };
-        return Err(src.error_at(key.span(), error));
+        return Err(src.error_at(key.span(), error).into());
     }
     let de = toml::de::Deserializer::from(table);
     let v = Validator { src: &src };
@@ -258,6 +311,18 @@ pub fn parse_spec(path: &str, text: &str) -> Result<Spec, SpecError> {
             let raw: RawPermutation = serde::Deserialize::deserialize(de).map_err(toml_error)?;
             let form = v.form(&raw.oracle, None)?;
             let body = SpecBody::Permutation(v.permutation(&raw)?);
+            Ok(Spec {
+                name: raw.name.map(|n| n.into_inner()),
+                body,
+                form,
+            })
+        }
+        "netlist" => {
+            let raw: RawNetlist = serde::Deserialize::deserialize(de).map_err(toml_error)?;
+            // Without a selection the output count is the file's: checked after reading it.
+            let outputs = raw.outputs.as_ref().map_or(1, |o| o.get_ref().len());
+            let form = v.form(&raw.oracle, Some(outputs))?;
+            let body = SpecBody::Function(v.netlist(&raw, form, read, limits)?);
             Ok(Spec {
                 name: raw.name.map(|n| n.into_inner()),
                 body,
@@ -302,6 +367,67 @@ impl Validator<'_> {
             "phase" => Err(self.err(&f.span(), SpecErrorKind::PhaseNeedsOneOutput)),
             other => Err(self.err(&f.span(), SpecErrorKind::UnknownForm(other.to_string()))),
         }
+    }
+
+    /// `kind = "netlist"`: the design file read through `read`, then the
+    /// output selection; a phase oracle needs exactly one output in the end.
+    fn netlist(
+        &self,
+        raw: &RawNetlist,
+        form: OracleForm,
+        read: &mut FileReader<'_>,
+        limits: &ReadLimits,
+    ) -> Result<FunctionSpec, SpecLoadError> {
+        let file = raw.file.as_ref().ok_or_else(|| {
+            self.err(
+                &raw.kind.span(),
+                SpecErrorKind::Missing {
+                    key: "file",
+                    needed_by: "a netlist spec".into(),
+                },
+            )
+        })?;
+        if let Some(o) = &raw.outputs {
+            if o.get_ref().is_empty() {
+                return Err(self.err(&o.span(), SpecErrorKind::Empty("outputs")).into());
+            }
+        }
+        let (shown, bytes) = read(file.get_ref()).map_err(|reason| {
+            let kind = if reason.is_empty() {
+                SpecErrorKind::NoFileReader
+            } else {
+                SpecErrorKind::CannotRead {
+                    file: file.get_ref().clone(),
+                    reason,
+                }
+            };
+            self.err(&file.span(), kind)
+        })?;
+        let netlist = read_netlist(&shown, &bytes, limits).map_err(SpecLoadError::Design)?;
+        let select: Option<Vec<String>> = raw
+            .outputs
+            .as_ref()
+            .map(|o| o.get_ref().iter().map(|n| n.get_ref().clone()).collect());
+        let f = netlist_function(&netlist, select.as_deref()).map_err(|issue| {
+            let span = match &issue {
+                DesignIssue::UnknownOutput { index, .. }
+                | DesignIssue::SelectedTwice { index, .. } => {
+                    raw.outputs.as_ref().expect("a selection").get_ref()[*index].span()
+                }
+                _ => file.span(),
+            };
+            self.err(&span, SpecErrorKind::Design(issue.to_string()))
+        })?;
+        if form == OracleForm::Phase && f.outputs.len() != 1 {
+            let span = raw
+                .oracle
+                .as_ref()
+                .and_then(|o| o.get_ref().form.as_ref())
+                .map(|f| f.span())
+                .unwrap_or_else(|| file.span());
+            return Err(self.err(&span, SpecErrorKind::PhaseNeedsOneOutput).into());
+        }
+        Ok(f)
     }
 
     fn nonneg(&self, v: &Spanned<i64>, key: &'static str) -> Result<u64, SpecError> {
