@@ -39,6 +39,9 @@ pub struct VerifyReport<'a> {
     /// Seconds the check took.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub seconds: Option<f64>,
+    /// Present and true when the check was against the inverse of the spec's map.
+    #[serde(skip_serializing_if = "std::ops::Not::not")]
+    pub inverse: bool,
 }
 
 /// One row of `compare --json`: a method's build report, or why it made no circuit.

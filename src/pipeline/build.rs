@@ -8,7 +8,7 @@ use crate::opt::optimize;
 use crate::progress::Progress;
 use crate::spec::{OracleForm, Spec};
 use crate::synth::{synthesize, Method};
-use crate::verify::verify_with_progress;
+use crate::verify::{verify_inverse_with_progress, verify_with_progress};
 use std::time::Instant;
 
 /// Most gates for which the optimizer runs.
@@ -60,5 +60,43 @@ pub fn build_one(
         notes: synthesis.notes,
         stop: synthesis.stop,
         form: spec.form,
+        inverse: false,
+        grover: None,
+    })
+}
+
+/// The inverse of a built oracle (its gates in reverse order, before and
+/// after lowering, with the same cost), verified against the inverse of the
+/// spec's map when `opts` asks for verification. Inverting twice gives the
+/// oracle back.
+pub fn invert(
+    out: Outcome,
+    spec: &Spec,
+    opts: &BuildOptions,
+    progress: &dyn Progress,
+) -> Result<Outcome, BuildError> {
+    let t0 = Instant::now();
+    let mct = out.mct.inverse();
+    let lowered = out.lowered.inverse();
+    let inverse = !out.inverse;
+    let verification = match &opts.verify {
+        Some(v) if inverse => {
+            Verification::Ran(verify_inverse_with_progress(&lowered, spec, v, progress)?)
+        }
+        Some(v) => Verification::Ran(verify_with_progress(&lowered, spec, v, progress)?),
+        None => Verification::Skipped { verdict: "skipped" },
+    };
+    let cost = Cost::measure(&mct, &lowered);
+    Ok(Outcome {
+        mct,
+        lowered,
+        cost,
+        verification,
+        timings: Timings {
+            verify: out.timings.verify + t0.elapsed().as_secs_f64(),
+            ..out.timings
+        },
+        inverse,
+        ..out
     })
 }

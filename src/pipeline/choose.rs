@@ -3,6 +3,7 @@
 //! qubit trade-off curve that use the same ranking.
 
 use super::build::build_one;
+use super::grover::grover_facts;
 use super::{BuildError, BuildOptions, Outcome, Verification};
 use crate::progress::Progress;
 use crate::spec::{Spec, SpecBody};
@@ -54,9 +55,25 @@ pub fn build_with_progress(
     opts: &BuildOptions,
     progress: &dyn Progress,
 ) -> Result<Outcome, BuildError> {
-    if let Some(m) = opts.method {
-        return build_one(spec, m, opts, progress);
-    }
+    let mut out = match opts.method {
+        Some(m) => build_one(spec, m, opts, progress)?,
+        None => build_auto(spec, opts, progress)?,
+    };
+    out.grover = grover_facts(spec, max_states(opts), progress)?;
+    Ok(out)
+}
+
+/// The states the verifier may simulate, also the budget of its count of marked inputs.
+fn max_states(opts: &BuildOptions) -> u64 {
+    opts.verify
+        .map_or(crate::verify::DEFAULT_MAX_STATES, |v| v.max_states)
+}
+
+fn build_auto(
+    spec: &Spec,
+    opts: &BuildOptions,
+    progress: &dyn Progress,
+) -> Result<Outcome, BuildError> {
     let mut tried: Vec<(Method, Result<Outcome, BuildError>)> = Vec::new();
     for m in candidates(spec, false) {
         if progress.cancelled() {
@@ -70,9 +87,16 @@ pub fn build_with_progress(
 /// Runs every method that applies (the slow ones too), each verified when
 /// `opts.verify` asks for it; for `oraculum compare`.
 pub fn compare(spec: &Spec, opts: &BuildOptions) -> Vec<(Method, Result<Outcome, BuildError>)> {
+    let grover = grover_facts(spec, max_states(opts), &());
     candidates(spec, true)
         .into_iter()
-        .map(|m| (m, build_one(spec, m, opts, &())))
+        .map(|m| {
+            let r = build_one(spec, m, opts, &()).and_then(|mut o| {
+                o.grover = grover.clone()?;
+                Ok(o)
+            });
+            (m, r)
+        })
         .collect()
 }
 

@@ -14,10 +14,10 @@ mod raw;
 
 pub use error::{SpecError, SpecErrorKind};
 pub use layout::permutation_layout;
-pub use netlist::{netlist_function, DesignIssue};
+pub use netlist::{netlist_function, DesignIssue, FileReader, SpecLoadError};
 
 use crate::logic::{program, Dag, NodeId, Permutation, PermutationError, TruthTable};
-use crate::netlist::{read_netlist, ReadError, ReadLimits};
+use crate::netlist::ReadLimits;
 use crate::source::Source;
 use raw::{RawArithmetic, RawFunction, RawNetlist, RawOracle, RawPermutation};
 use std::ops::Range;
@@ -32,6 +32,29 @@ pub struct Spec {
     pub body: SpecBody,
     /// `[oracle] form`.
     pub form: OracleForm,
+    /// `[registers]`: (standard name, own name) of every renamed register,
+    /// for the files written and read; the library works on the standard
+    /// names (`x`, `y`, `anc`, `a`, ...) throughout.
+    pub registers: Vec<(String, String)>,
+}
+
+impl Spec {
+    /// The own name of the standard register `name` (itself when not renamed).
+    pub fn register_name<'a>(&'a self, name: &'a str) -> &'a str {
+        self.registers
+            .iter()
+            .find(|(std, _)| std == name)
+            .map_or(name, |(_, own)| own)
+    }
+
+    /// The map from own names back to standard ones, for a file written with
+    /// the spec's names.
+    pub fn registers_back(&self) -> Vec<(String, String)> {
+        self.registers
+            .iter()
+            .map(|(std, own)| (own.clone(), std.clone()))
+            .collect()
+    }
 }
 
 /// How the oracle acts on its output.
@@ -190,28 +213,6 @@ fn kind_keys(kind: &str) -> &'static [&'static str] {
     }
 }
 
-/// Why a spec that may name a design file could not be read.
-#[derive(Clone, Debug, PartialEq, Eq, thiserror::Error)]
-pub enum SpecLoadError {
-    /// The spec itself is wrong (at its place in the spec file).
-    #[error("{0}")]
-    Spec(SpecError),
-    /// The design file it names is malformed (at its place in that file)
-    /// or over a reader limit.
-    #[error("{0}")]
-    Design(ReadError),
-}
-
-impl From<SpecError> for SpecLoadError {
-    fn from(e: SpecError) -> Self {
-        SpecLoadError::Spec(e)
-    }
-}
-
-/// Reads the bytes of the design file a spec names: given the `file` value
-/// as written, the path to show in messages and the contents, or why not.
-pub type FileReader<'a> = dyn FnMut(&str) -> Result<(String, Vec<u8>), String> + 'a;
-
 /// Parses and validates a spec. `path` is only used in messages. A
 /// `kind = "netlist"` spec is refused here ([`SpecErrorKind::NoFileReader`]):
 /// the library reads no files; [`parse_spec_with`] takes a reader.
@@ -300,44 +301,42 @@ pub fn parse_spec_with(
         "function" => {
             let raw: RawFunction = serde::Deserialize::deserialize(de).map_err(toml_error)?;
             let form = v.form(&raw.oracle, raw.outputs.as_ref().map(|o| o.get_ref().len()))?;
-            let body = SpecBody::Function(v.function(&raw)?);
-            Ok(Spec {
-                name: raw.name.map(|n| n.into_inner()),
-                body,
+            let mut spec = Spec {
+                name: raw.name.as_ref().map(|n| n.get_ref().clone()),
+                body: SpecBody::Function(v.function(&raw)?),
                 form,
-            })
+                registers: Vec::new(),
+            };
+            spec.registers = v.registers(&raw.registers, &spec)?;
+            Ok(spec)
         }
         "permutation" => {
             let raw: RawPermutation = serde::Deserialize::deserialize(de).map_err(toml_error)?;
             let form = v.form(&raw.oracle, None)?;
-            let body = SpecBody::Permutation(v.permutation(&raw)?);
-            Ok(Spec {
-                name: raw.name.map(|n| n.into_inner()),
-                body,
+            let mut spec = Spec {
+                name: raw.name.as_ref().map(|n| n.get_ref().clone()),
+                body: SpecBody::Permutation(v.permutation(&raw)?),
                 form,
-            })
+                registers: Vec::new(),
+            };
+            spec.registers = v.registers(&raw.registers, &spec)?;
+            Ok(spec)
         }
         "netlist" => {
             let raw: RawNetlist = serde::Deserialize::deserialize(de).map_err(toml_error)?;
-            // Without a selection the output count is the file's: checked after reading it.
-            let outputs = raw.outputs.as_ref().map_or(1, |o| o.get_ref().len());
-            let form = v.form(&raw.oracle, Some(outputs))?;
-            let body = SpecBody::Function(v.netlist(&raw, form, read, limits)?);
-            Ok(Spec {
-                name: raw.name.map(|n| n.into_inner()),
-                body,
-                form,
-            })
+            v.netlist_spec(&raw, read, limits)
         }
         _ => {
             let raw: RawArithmetic = serde::Deserialize::deserialize(de).map_err(toml_error)?;
             let form = v.form(&raw.oracle, None)?;
-            let body = SpecBody::Arithmetic(v.arithmetic(&raw)?);
-            Ok(Spec {
-                name: raw.name.map(|n| n.into_inner()),
-                body,
+            let mut spec = Spec {
+                name: raw.name.as_ref().map(|n| n.get_ref().clone()),
+                body: SpecBody::Arithmetic(v.arithmetic(&raw)?),
                 form,
-            })
+                registers: Vec::new(),
+            };
+            spec.registers = v.registers(&raw.registers, &spec)?;
+            Ok(spec)
         }
     }
 }
@@ -369,65 +368,57 @@ impl Validator<'_> {
         }
     }
 
-    /// `kind = "netlist"`: the design file read through `read`, then the
-    /// output selection; a phase oracle needs exactly one output in the end.
-    fn netlist(
+    /// `[registers]`: each key a register of the spec (or `anc`), each value
+    /// a usable name, and no two registers named alike once renamed.
+    fn registers(
         &self,
-        raw: &RawNetlist,
-        form: OracleForm,
-        read: &mut FileReader<'_>,
-        limits: &ReadLimits,
-    ) -> Result<FunctionSpec, SpecLoadError> {
-        let file = raw.file.as_ref().ok_or_else(|| {
-            self.err(
-                &raw.kind.span(),
-                SpecErrorKind::Missing {
-                    key: "file",
-                    needed_by: "a netlist spec".into(),
-                },
-            )
-        })?;
-        if let Some(o) = &raw.outputs {
-            if o.get_ref().is_empty() {
-                return Err(self.err(&o.span(), SpecErrorKind::Empty("outputs")).into());
+        raw: &Option<raw::Section>,
+        spec: &Spec,
+    ) -> Result<Vec<(String, String)>, SpecError> {
+        let Some(section) = raw else {
+            return Ok(Vec::new());
+        };
+        let mut standard: Vec<&str> = spec.layout().sizes().iter().map(|(n, _)| *n).collect();
+        standard.push(crate::circuit::layout::ANCILLAE);
+        let mut out = Vec::new();
+        for (key, value) in section.get_ref() {
+            if !standard.contains(&key.get_ref().as_str()) {
+                return Err(self.err(
+                    &key.span(),
+                    SpecErrorKind::NotARegister {
+                        name: key.get_ref().clone(),
+                        registers: standard.join(", "),
+                    },
+                ));
             }
+            if !crate::circuit::layout::usable_register_name(value.get_ref()) {
+                return Err(self.err(
+                    &value.span(),
+                    SpecErrorKind::BadRegisterName(value.get_ref().clone()),
+                ));
+            }
+            out.push((key.get_ref().clone(), value.get_ref().clone()));
         }
-        let (shown, bytes) = read(file.get_ref()).map_err(|reason| {
-            let kind = if reason.is_empty() {
-                SpecErrorKind::NoFileReader
-            } else {
-                SpecErrorKind::CannotRead {
-                    file: file.get_ref().clone(),
-                    reason,
-                }
-            };
-            self.err(&file.span(), kind)
-        })?;
-        let netlist = read_netlist(&shown, &bytes, limits).map_err(SpecLoadError::Design)?;
-        let select: Option<Vec<String>> = raw
-            .outputs
-            .as_ref()
-            .map(|o| o.get_ref().iter().map(|n| n.get_ref().clone()).collect());
-        let f = netlist_function(&netlist, select.as_deref()).map_err(|issue| {
-            let span = match &issue {
-                DesignIssue::UnknownOutput { index, .. }
-                | DesignIssue::SelectedTwice { index, .. } => {
-                    raw.outputs.as_ref().expect("a selection").get_ref()[*index].span()
-                }
-                _ => file.span(),
-            };
-            self.err(&span, SpecErrorKind::Design(issue.to_string()))
-        })?;
-        if form == OracleForm::Phase && f.outputs.len() != 1 {
-            let span = raw
-                .oracle
-                .as_ref()
-                .and_then(|o| o.get_ref().form.as_ref())
-                .map(|f| f.span())
-                .unwrap_or_else(|| file.span());
-            return Err(self.err(&span, SpecErrorKind::PhaseNeedsOneOutput).into());
+        // Every register's final name, renamed or not, once.
+        let mut finals: Vec<&str> = Vec::new();
+        for std in &standard {
+            let own = out
+                .iter()
+                .find(|(s, _)| s == std)
+                .map_or(*std, |(_, o)| o.as_str());
+            if finals.contains(&own) {
+                // At this register's own value, or at the renaming it clashes with.
+                let span = section
+                    .get_ref()
+                    .iter()
+                    .find(|(k, _)| k.get_ref() == std)
+                    .or_else(|| section.get_ref().iter().find(|(_, v)| v.get_ref() == own))
+                    .map_or(section.span(), |(_, v)| v.span());
+                return Err(self.err(&span, SpecErrorKind::RegisterNameTwice(own.to_string())));
+            }
+            finals.push(own);
         }
-        Ok(f)
+        Ok(out)
     }
 
     fn nonneg(&self, v: &Spanned<i64>, key: &'static str) -> Result<u64, SpecError> {

@@ -1,4 +1,4 @@
-//! A design file as a function spec: `kind = "netlist"` and design files given directly.
+//! A design file as a function spec: `kind = "netlist"` (validation, output selection) and design files given directly.
 //!
 //! The netlist's nodes become nodes of the spec's expression graph one for
 //! one (an n-ary node one n-ary term, a complemented edge one `Not`), so
@@ -6,8 +6,13 @@
 //! order and names, its outputs the file's order or the order of the spec's
 //! `outputs` selection.
 
-use super::{FunctionSpec, Output, OutputDef};
+use super::raw::RawNetlist;
+use super::{
+    FunctionSpec, OracleForm, Output, OutputDef, Spec, SpecBody, SpecError, SpecErrorKind,
+    Validator,
+};
 use crate::logic::Dag;
+use crate::netlist::{read_netlist, ReadError, ReadLimits};
 use crate::netlist::{Netlist, NodeKind};
 use std::fmt;
 
@@ -142,6 +147,112 @@ pub fn netlist_function(
         outputs,
         dag,
     })
+}
+
+/// Why a spec that may name a design file could not be read.
+#[derive(Clone, Debug, PartialEq, Eq, thiserror::Error)]
+pub enum SpecLoadError {
+    /// The spec itself is wrong (at its place in the spec file).
+    #[error("{0}")]
+    Spec(SpecError),
+    /// The design file it names is malformed (at its place in that file)
+    /// or over a reader limit.
+    #[error("{0}")]
+    Design(ReadError),
+}
+
+impl From<SpecError> for SpecLoadError {
+    fn from(e: SpecError) -> Self {
+        SpecLoadError::Spec(e)
+    }
+}
+
+/// Reads the bytes of the design file a spec names: given the `file` value
+/// as written, the path to show in messages and the contents, or why not.
+pub type FileReader<'a> = dyn FnMut(&str) -> Result<(String, Vec<u8>), String> + 'a;
+
+impl Validator<'_> {
+    /// A `kind = "netlist"` spec: the oracle form, the design file and the
+    /// output selection; without a selection the output count is the
+    /// file's, so a phase oracle's single output is checked after reading.
+    pub(super) fn netlist_spec(
+        &self,
+        raw: &RawNetlist,
+        read: &mut FileReader<'_>,
+        limits: &ReadLimits,
+    ) -> Result<Spec, SpecLoadError> {
+        let outputs = raw.outputs.as_ref().map_or(1, |o| o.get_ref().len());
+        let form = self.form(&raw.oracle, Some(outputs))?;
+        let mut spec = Spec {
+            name: raw.name.as_ref().map(|n| n.get_ref().clone()),
+            body: SpecBody::Function(self.netlist(raw, form, read, limits)?),
+            form,
+            registers: Vec::new(),
+        };
+        spec.registers = self.registers(&raw.registers, &spec)?;
+        Ok(spec)
+    }
+
+    /// `kind = "netlist"`: the design file read through `read`, then the
+    /// output selection; a phase oracle needs exactly one output in the end.
+    fn netlist(
+        &self,
+        raw: &RawNetlist,
+        form: OracleForm,
+        read: &mut FileReader<'_>,
+        limits: &ReadLimits,
+    ) -> Result<FunctionSpec, SpecLoadError> {
+        let file = raw.file.as_ref().ok_or_else(|| {
+            self.err(
+                &raw.kind.span(),
+                SpecErrorKind::Missing {
+                    key: "file",
+                    needed_by: "a netlist spec".into(),
+                },
+            )
+        })?;
+        if let Some(o) = &raw.outputs {
+            if o.get_ref().is_empty() {
+                return Err(self.err(&o.span(), SpecErrorKind::Empty("outputs")).into());
+            }
+        }
+        let (shown, bytes) = read(file.get_ref()).map_err(|reason| {
+            let kind = if reason.is_empty() {
+                SpecErrorKind::NoFileReader
+            } else {
+                SpecErrorKind::CannotRead {
+                    file: file.get_ref().clone(),
+                    reason,
+                }
+            };
+            self.err(&file.span(), kind)
+        })?;
+        let netlist = read_netlist(&shown, &bytes, limits).map_err(SpecLoadError::Design)?;
+        let select: Option<Vec<String>> = raw
+            .outputs
+            .as_ref()
+            .map(|o| o.get_ref().iter().map(|n| n.get_ref().clone()).collect());
+        let f = netlist_function(&netlist, select.as_deref()).map_err(|issue| {
+            let span = match &issue {
+                DesignIssue::UnknownOutput { index, .. }
+                | DesignIssue::SelectedTwice { index, .. } => {
+                    raw.outputs.as_ref().expect("a selection").get_ref()[*index].span()
+                }
+                _ => file.span(),
+            };
+            self.err(&span, SpecErrorKind::Design(issue.to_string()))
+        })?;
+        if form == OracleForm::Phase && f.outputs.len() != 1 {
+            let span = raw
+                .oracle
+                .as_ref()
+                .and_then(|o| o.get_ref().form.as_ref())
+                .map(|f| f.span())
+                .unwrap_or_else(|| file.span());
+            return Err(self.err(&span, SpecErrorKind::PhaseNeedsOneOutput).into());
+        }
+        Ok(f)
+    }
 }
 
 #[cfg(test)]
