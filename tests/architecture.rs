@@ -20,7 +20,7 @@ const ALLOWED: &[(&str, &[&str])] = &[
     ("logic", &[]),
     ("exact", &["circuit", "logic"]),
     ("progress", &["exact"]),
-    ("xag", &[]),
+    ("xag", &["logic"]),
     ("netlist", &["source", "logic"]),
     ("spec", &["source", "logic", "circuit", "netlist"]),
     ("lower", &["circuit"]),
@@ -29,7 +29,7 @@ const ALLOWED: &[(&str, &[&str])] = &[
     (
         "synth",
         &[
-            "circuit", "logic", "spec", "exact", "opt", "limit", "progress",
+            "circuit", "logic", "spec", "exact", "opt", "limit", "progress", "xag",
         ],
     ),
     (
