@@ -441,6 +441,7 @@ fn compare_lists_every_method_and_marks_the_best() {
             "reed-muller",
             "esop",
             "bennett",
+            "xag",
             "hierarchical",
             "esop-exact"
         ]
