@@ -16,7 +16,8 @@
 //! "#).unwrap();
 //! let out = build(&spec, &BuildOptions { verify: Some(Default::default()), ..Default::default() }).unwrap();
 //! assert!(out.verification.is_proven());
-//! assert_eq!(out.cost.toffoli, 3); // ab ^ ac ^ bc
+//! // Majority has one AND, (a ^ c)(b ^ c) ^ c: computed, copied, uncomputed.
+//! assert_eq!(out.cost.toffoli, 2);
 //! let qasm = out.qasm().unwrap();
 //! assert!(qasm.starts_with("OPENQASM 2.0;"));
 //! ```

@@ -20,16 +20,16 @@ const ALLOWED: &[(&str, &[&str])] = &[
     ("logic", &[]),
     ("exact", &["circuit", "logic"]),
     ("progress", &["exact"]),
-    ("xag", &[]),
+    ("xag", &["logic"]),
     ("netlist", &["source", "logic"]),
-    ("spec", &["source", "logic", "circuit"]),
+    ("spec", &["source", "logic", "circuit", "netlist"]),
     ("lower", &["circuit"]),
     ("mutate", &["circuit"]),
     ("opt", &["circuit", "exact", "lower"]),
     (
         "synth",
         &[
-            "circuit", "logic", "spec", "exact", "opt", "limit", "progress",
+            "circuit", "logic", "spec", "exact", "opt", "limit", "progress", "xag",
         ],
     ),
     (

@@ -3,7 +3,7 @@
 
 mod common;
 
-use common::{repo, run_in, text, workspace, COST_FIELDS};
+use common::{qasmsim_run, repo, run_in, text, workspace, COST_FIELDS};
 
 #[test]
 fn readme_first_command_works_on_a_fresh_copy() {
@@ -441,6 +441,7 @@ fn compare_lists_every_method_and_marks_the_best() {
             "reed-muller",
             "esop",
             "bennett",
+            "xag",
             "hierarchical",
             "esop-exact"
         ]
@@ -717,4 +718,152 @@ fn the_exact_table_command() {
     );
     assert!(r.contains("raise --exact-seconds"), "{r}");
     assert!(r.contains("verified on all 16 basis states"), "{r}");
+}
+
+/// A design file is a spec: a BLIF full adder (sum = a XOR b XOR c, carry =
+/// majority; common practice) synthesized directly, its circuit run by the
+/// outside simulator on all eight inputs, then verified against the file.
+#[test]
+fn blif_file_is_synthesized_and_verified_directly() {
+    let dir = tempfile::tempdir().unwrap();
+    let blif = ".model full_adder\n.inputs a b c\n.outputs s co\n\
+                .names a b c s\n100 1\n010 1\n001 1\n111 1\n\
+                .names a b c co\n11- 1\n1-1 1\n-11 1\n.end\n";
+    std::fs::write(dir.path().join("fa.blif"), blif).unwrap();
+    let o = run_in(dir.path(), &["synth", "fa.blif", "-o", "fa.qasm"]);
+    assert_eq!(o.status.code(), Some(0), "{:?}", text(&o));
+    let qasm = std::fs::read_to_string(dir.path().join("fa.qasm")).unwrap();
+    for x in 0..8usize {
+        let set: Vec<(String, usize)> = (0..3)
+            .filter(|j| (x >> j) & 1 == 1)
+            .map(|j| ("x".to_string(), j))
+            .collect();
+        let got = qasmsim_run(&qasm, &set);
+        let ones = x.count_ones() as u64;
+        let want = (ones & 1) | (u64::from(ones >= 2) << 1);
+        assert_eq!(got["y"], want, "input {x:03b}");
+        assert_eq!(got["x"], x as u64, "input {x:03b} kept");
+    }
+    let o = run_in(dir.path(), &["verify", "fa.qasm", "--spec", "fa.blif"]);
+    assert_eq!(o.status.code(), Some(0), "{:?}", text(&o));
+    // A circuit of another function is refuted against the same file.
+    let wrong = blif.replace("111 1", "110 1");
+    std::fs::write(dir.path().join("wrong.blif"), wrong).unwrap();
+    let o = run_in(dir.path(), &["verify", "fa.qasm", "--spec", "wrong.blif"]);
+    assert_eq!(o.status.code(), Some(1), "{:?}", text(&o));
+}
+
+/// A malformed design file stops with file, line and column, exit 2.
+#[test]
+fn malformed_design_file_is_located() {
+    let dir = tempfile::tempdir().unwrap();
+    let blif = ".model m\n.inputs a\n.outputs y\n.names a q y\n1 1\n.end\n";
+    std::fs::write(dir.path().join("bad.blif"), blif).unwrap();
+    let o = run_in(dir.path(), &["synth", "bad.blif"]);
+    let (_, err) = text(&o);
+    assert_eq!(o.status.code(), Some(2), "{err}");
+    assert!(err.contains("bad.blif:5:"), "{err}");
+}
+
+/// An EPFL circuit (int2float, AIGER binary; MIT licence, tests/data/epfl)
+/// is read, synthesized and proven on every basis state.
+#[test]
+fn epfl_aiger_file_synthesizes_and_verifies() {
+    let dir = tempfile::tempdir().unwrap();
+    let aig = repo().join("tests/data/epfl/int2float.aig");
+    let o = run_in(dir.path(), &["synth", aig.to_str().unwrap(), "--json"]);
+    let (out, err) = text(&o);
+    assert_eq!(o.status.code(), Some(0), "{err}");
+    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    assert_eq!(v["verification"]["verdict"], "proven");
+}
+
+/// A `kind = "netlist"` spec names a design file (taken from the spec's
+/// folder) and selects outputs in its own order: the BLIF full adder with
+/// carry first, then sum (carry = majority, sum = parity; common practice),
+/// run by the outside simulator; the carry alone as a phase oracle is
+/// synthesized and verified.
+#[test]
+fn netlist_spec_selects_outputs_of_a_design_file() {
+    let dir = tempfile::tempdir().unwrap();
+    std::fs::create_dir(dir.path().join("specs")).unwrap();
+    let blif = ".model full_adder\n.inputs a b c\n.outputs s co\n\
+                .names a b c s\n100 1\n010 1\n001 1\n111 1\n\
+                .names a b c co\n11- 1\n1-1 1\n-11 1\n.end\n";
+    std::fs::write(dir.path().join("specs/fa.blif"), blif).unwrap();
+    let spec = "kind = \"netlist\"\nfile = \"fa.blif\"\noutputs = [\"co\", \"s\"]\n";
+    std::fs::write(dir.path().join("specs/swap.toml"), spec).unwrap();
+    let o = run_in(dir.path(), &["synth", "specs/swap.toml", "-o", "swap.qasm"]);
+    assert_eq!(o.status.code(), Some(0), "{:?}", text(&o));
+    let qasm = std::fs::read_to_string(dir.path().join("swap.qasm")).unwrap();
+    for x in 0..8usize {
+        let set: Vec<(String, usize)> = (0..3)
+            .filter(|j| (x >> j) & 1 == 1)
+            .map(|j| ("x".to_string(), j))
+            .collect();
+        let got = qasmsim_run(&qasm, &set);
+        let ones = x.count_ones() as u64;
+        let want = u64::from(ones >= 2) | ((ones & 1) << 1);
+        assert_eq!(got["y"], want, "input {x:03b}");
+    }
+    let phase = "kind = \"netlist\"\nfile = \"fa.blif\"\noutputs = [\"co\"]\n\
+                 [oracle]\nform = \"phase\"\n";
+    std::fs::write(dir.path().join("specs/carry.toml"), phase).unwrap();
+    let o = run_in(
+        dir.path(),
+        &["synth", "specs/carry.toml", "-o", "carry.qasm"],
+    );
+    assert_eq!(o.status.code(), Some(0), "{:?}", text(&o));
+    let o = run_in(
+        dir.path(),
+        &["verify", "carry.qasm", "--spec", "specs/carry.toml"],
+    );
+    assert_eq!(o.status.code(), Some(0), "{:?}", text(&o));
+}
+
+/// A netlist spec's mistakes are placed: a missing file at its `file` value,
+/// an unknown output at its name in the selection, a phase oracle of two
+/// outputs, a malformed design at its place in the design file; exit 2.
+#[test]
+fn netlist_spec_errors_are_located() {
+    let dir = tempfile::tempdir().unwrap();
+    let blif = ".model fa\n.inputs a b c\n.outputs s co\n\
+                .names a b c s\n100 1\n010 1\n001 1\n111 1\n\
+                .names a b c co\n11- 1\n1-1 1\n-11 1\n.end\n";
+    std::fs::write(dir.path().join("fa.blif"), blif).unwrap();
+    std::fs::write(
+        dir.path().join("bad.blif"),
+        ".model m\n.inputs a\n.outputs y\n.names a q y\n1 1\n.end\n",
+    )
+    .unwrap();
+    let cases: [(&str, &str, &str); 4] = [
+        (
+            "kind = \"netlist\"\nfile = \"none.blif\"\n",
+            "s.toml:2:8",
+            "cannot read",
+        ),
+        (
+            "kind = \"netlist\"\nfile = \"fa.blif\"\noutputs = [\"s\", \"cout\"]\n",
+            "s.toml:3:17",
+            "no output 'cout'",
+        ),
+        (
+            "kind = \"netlist\"\nfile = \"fa.blif\"\n[oracle]\nform = \"phase\"\n",
+            "s.toml:4:8",
+            "",
+        ),
+        (
+            "kind = \"netlist\"\nfile = \"bad.blif\"\n",
+            "bad.blif:5:",
+            "",
+        ),
+    ];
+    for (spec, place, words) in cases {
+        std::fs::write(dir.path().join("s.toml"), spec).unwrap();
+        let o = run_in(dir.path(), &["synth", "s.toml"]);
+        let (_, err) = text(&o);
+        assert_eq!(o.status.code(), Some(2), "{spec}: {err}");
+        assert!(err.contains(place), "{spec}: {err}");
+        assert!(err.contains(words), "{spec}: {err}");
+    }
 }

@@ -2,7 +2,9 @@
 
 use super::{code, render, Failure};
 use oraculum::export::{read_qasm_with, ReadError, ReadLimits};
-use oraculum::{parse_spec, Circuit, Spec};
+use oraculum::netlist::{read_netlist, ReadError as NetError, ReadLimits as NetLimits};
+use oraculum::spec::{netlist_function, parse_spec_with, SpecLoadError};
+use oraculum::{Circuit, OracleForm, Spec, SpecBody};
 use std::io::Write;
 use std::path::{Path, PathBuf};
 use std::sync::Mutex;
@@ -22,9 +24,67 @@ pub fn read_text(path: &Path) -> Result<String, Failure> {
         .map_err(|e| Failure::bad(format!("{}: cannot read: {e}", path.display())))
 }
 
+/// Reads a spec: a TOML spec (a `kind = "netlist"` spec's `file` taken
+/// from the spec's folder when relative), or a design file (`.blif`,
+/// `.aag`, `.aig`, `.pla`, `.cnf`) taken as an xor oracle of its outputs.
 pub fn load_spec(path: &Path) -> Result<Spec, Failure> {
+    if is_design_file(path) {
+        return load_design(path);
+    }
     let text = read_text(path)?;
-    Ok(parse_spec(&path.display().to_string(), &text)?)
+    let folder = path.parent().map(Path::to_path_buf).unwrap_or_default();
+    let mut read = |file: &str| {
+        let p = folder.join(file);
+        std::fs::read(&p)
+            .map(|b| (p.display().to_string(), b))
+            .map_err(|e| e.to_string())
+    };
+    parse_spec_with(
+        &path.display().to_string(),
+        &text,
+        &mut read,
+        &NetLimits::default(),
+    )
+    .map_err(|e| match e {
+        SpecLoadError::Spec(e) => Failure::from(e),
+        SpecLoadError::Design(e) => design_failure(e),
+    })
+}
+
+/// A design file's read error: malformed at its place (exit 2), or over a
+/// reader limit (exit 3).
+fn design_failure(e: NetError) -> Failure {
+    match e {
+        NetError::Malformed(e) => Failure::from(e),
+        e @ NetError::Limit { .. } => Failure::with_code(code::LIMIT, e.to_string()),
+    }
+}
+
+/// Whether `path` names a design file by its extension (case ignored).
+fn is_design_file(path: &Path) -> bool {
+    path.extension()
+        .and_then(|e| e.to_str())
+        .map(|e| e.to_ascii_lowercase())
+        .is_some_and(|e| matches!(e.as_str(), "blif" | "aag" | "aig" | "pla" | "cnf"))
+}
+
+/// Reads a design file into a function spec (see `netlist_function`):
+/// inputs `x` and outputs `y` in the file's order, named as in the file.
+fn load_design(path: &Path) -> Result<Spec, Failure> {
+    let name = path.display().to_string();
+    let bytes =
+        std::fs::read(path).map_err(|e| Failure::bad(format!("{name}: cannot read: {e}")))?;
+    let netlist = read_netlist(&name, &bytes, &NetLimits::default()).map_err(|e| match e {
+        e @ NetError::Limit { .. } => Failure::with_code(code::LIMIT, format!("{name}: {e}")),
+        e => design_failure(e),
+    })?;
+    let f = netlist_function(&netlist, None).map_err(|e| Failure::bad(format!("{name}: {e}")))?;
+    Ok(Spec {
+        name: path.file_stem().map(|s| s.to_string_lossy().into_owned()),
+        body: SpecBody::Function(f),
+        form: OracleForm::Xor,
+        registers: Vec::new(),
+    })
 }
 
 /// Parses `--registers OWN=STD,...`: a file's register names and the

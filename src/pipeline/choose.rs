@@ -20,6 +20,7 @@ pub fn candidates(spec: &Spec, thorough: bool) -> Vec<Method> {
                 Method::ReedMuller,
                 Method::Esop,
                 Method::Bennett,
+                Method::Xag,
                 Method::Hierarchical,
             ];
             let instant = n <= 4 && f.outputs.len() == 1;

@@ -145,6 +145,17 @@ pub enum SpecErrorKind {
         /// Words found.
         found: usize,
     },
+    /// A `kind = "netlist"` spec read where no design file can be read.
+    NoFileReader,
+    /// The design file named by `file` could not be read.
+    CannotRead {
+        /// The file.
+        file: String,
+        /// Why.
+        reason: String,
+    },
+    /// The design file was read but cannot be built as asked.
+    Design(String),
 }
 
 impl fmt::Display for SpecErrorKind {
@@ -223,6 +234,11 @@ impl fmt::Display for SpecErrorKind {
                 "{width} address bits need {} data words, found {found}",
                 1usize << width
             ),
+            NoFileReader => {
+                f.write_str("a netlist spec names a file, and this caller reads no files")
+            }
+            CannotRead { file, reason } => write!(f, "cannot read '{file}': {reason}"),
+            Design(m) => f.write_str(m),
         }
     }
 }
@@ -232,12 +248,15 @@ impl ErrorKind for SpecErrorKind {
         use SpecErrorKind::*;
         match self {
             UnknownKind(_) | NoKind => {
-                Some("kind is one of function, permutation, arithmetic".into())
+                Some("kind is one of function, permutation, arithmetic, netlist".into())
             }
             UnknownKey { kind, keys, .. } => {
                 Some(format!("a {kind} spec takes {}", keys.join(", ")))
             }
             UnknownForm(_) => Some("form is xor or phase".into()),
+            CannotRead { .. } => {
+                Some("a relative path is taken from the spec file's folder".into())
+            }
             BadName(_) => {
                 Some("names start with a letter or '_' and hold letters, digits and '_'".into())
             }

@@ -9,14 +9,17 @@ mod arith;
 mod error;
 mod function;
 mod layout;
+mod netlist;
 mod raw;
 
 pub use error::{SpecError, SpecErrorKind};
 pub use layout::permutation_layout;
+pub use netlist::{netlist_function, DesignIssue, FileReader, SpecLoadError};
 
 use crate::logic::{program, Dag, NodeId, Permutation, PermutationError, TruthTable};
+use crate::netlist::ReadLimits;
 use crate::source::Source;
-use raw::{RawArithmetic, RawFunction, RawOracle, RawPermutation};
+use raw::{RawArithmetic, RawFunction, RawNetlist, RawOracle, RawPermutation};
 use std::ops::Range;
 use toml::Spanned;
 
@@ -199,18 +202,42 @@ pub const MAX_PERMUTATION_LINES: usize = 16;
 pub const MAX_ARITH_WIDTH: usize = 1 << 16;
 
 /// The kinds of spec and the struct that reads each.
-const KINDS: [&str; 3] = ["function", "permutation", "arithmetic"];
+const KINDS: [&str; 4] = ["function", "permutation", "arithmetic", "netlist"];
 
 fn kind_keys(kind: &str) -> &'static [&'static str] {
     match kind {
         "function" => raw::keys::<RawFunction>(),
         "permutation" => raw::keys::<RawPermutation>(),
+        "netlist" => raw::keys::<RawNetlist>(),
         _ => raw::keys::<RawArithmetic>(),
     }
 }
 
-/// Parses and validates a spec. `path` is only used in messages.
+/// Parses and validates a spec. `path` is only used in messages. A
+/// `kind = "netlist"` spec is refused here ([`SpecErrorKind::NoFileReader`]):
+/// the library reads no files; [`parse_spec_with`] takes a reader.
 pub fn parse_spec(path: &str, text: &str) -> Result<Spec, SpecError> {
+    parse_spec_with(
+        path,
+        text,
+        &mut |_| Err(String::new()),
+        &ReadLimits::default(),
+    )
+    .map_err(|e| match e {
+        SpecLoadError::Spec(e) => e,
+        SpecLoadError::Design(_) => unreachable!("no file is read"),
+    })
+}
+
+/// Parses and validates a spec; a `kind = "netlist"` spec's design file is
+/// read through `read` (an empty reason means no files can be read) and
+/// parsed within `limits`.
+pub fn parse_spec_with(
+    path: &str,
+    text: &str,
+    read: &mut FileReader<'_>,
+    limits: &ReadLimits,
+) -> Result<Spec, SpecLoadError> {
     let src = Source { path, text };
     let toml_error = |e: toml::de::Error| {
         let span = e.span().unwrap_or(0..0);
@@ -226,19 +253,23 @@ pub fn parse_spec(path: &str, text: &str) -> Result<Spec, SpecError> {
         .find(|(k, _)| k.get_ref() == "kind")
         .map(|(_, v)| v);
     let Some(kind) = kind else {
-        return Err(src.error_at(0..0, SpecErrorKind::NoKind));
+        return Err(src.error_at(0..0, SpecErrorKind::NoKind).into());
     };
     let kind_name = match kind.get_ref() {
         toml::de::DeValue::String(s) => s.to_string(),
         _ => {
-            return Err(src.error_at(
-                kind.span(),
-                SpecErrorKind::Toml("'kind' is a string".into()),
-            ))
+            return Err(src
+                .error_at(
+                    kind.span(),
+                    SpecErrorKind::Toml("'kind' is a string".into()),
+                )
+                .into())
         }
     };
     if !KINDS.contains(&kind_name.as_str()) {
-        return Err(src.error_at(kind.span(), SpecErrorKind::UnknownKind(kind_name)));
+        return Err(src
+            .error_at(kind.span(), SpecErrorKind::UnknownKind(kind_name))
+            .into());
     }
     // Keys of another kind get a message of their own; unknown keys list the kind's.
     let keys = kind_keys(&kind_name);
@@ -262,7 +293,7 @@ pub fn parse_spec(path: &str, text: &str) -> Result<Spec, SpecError> {
                 keys: keys.to_vec(),
             }
         };
-        return Err(src.error_at(key.span(), error));
+        return Err(src.error_at(key.span(), error).into());
     }
     let de = toml::de::Deserializer::from(table);
     let v = Validator { src: &src };
@@ -290,6 +321,10 @@ pub fn parse_spec(path: &str, text: &str) -> Result<Spec, SpecError> {
             };
             spec.registers = v.registers(&raw.registers, &spec)?;
             Ok(spec)
+        }
+        "netlist" => {
+            let raw: RawNetlist = serde::Deserialize::deserialize(de).map_err(toml_error)?;
+            v.netlist_spec(&raw, read, limits)
         }
         _ => {
             let raw: RawArithmetic = serde::Deserialize::deserialize(de).map_err(toml_error)?;

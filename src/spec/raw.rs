@@ -68,6 +68,19 @@ pub struct RawArithmetic {
     pub data_width: Option<Spanned<i64>>,
 }
 
+/// `kind = "netlist"`.
+#[derive(serde::Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawNetlist {
+    pub kind: Spanned<String>,
+    pub name: Option<Spanned<String>>,
+    pub oracle: Option<Spanned<RawOracle>>,
+    pub file: Option<Spanned<String>>,
+    pub outputs: Option<Names>,
+    /// `[registers]`: own names for the standard registers.
+    pub registers: Option<Section>,
+}
+
 /// A whole number written as a TOML integer or, past the range of TOML
 /// integers, as a string in decimal, `0x` hex or `0b` binary.
 #[derive(serde::Deserialize)]

@@ -34,6 +34,7 @@ use super::{network_of, SynthError, SynthLimits, Synthesis};
 use crate::circuit::{Circuit, Control, Gate, Line};
 use crate::logic::{Lit, Network, Node};
 use crate::spec::FunctionSpec;
+use crate::xag::{minimize_ands, RewriteReport, Xag4Database};
 use std::collections::{BTreeMap, BTreeSet};
 use std::time::{Duration, Instant};
 
@@ -195,13 +196,39 @@ fn schedule_within(
 /// Bennett's compute-copy-uncompute for `f`, with a pebbling schedule when
 /// `limits.max_qubits` asks for fewer qubits than plain Bennett uses.
 pub fn bennett(f: &FunctionSpec, limits: &SynthLimits) -> Result<Synthesis, SynthError> {
+    bennett_on(f, &network_of(f)?, limits, Vec::new())
+}
+
+/// The network of `f` rewritten to fewer AND nodes (never more) by cut
+/// rewriting with the 4-input database, and what the rewriting did.
+pub fn xag_network(f: &FunctionSpec) -> Result<(Network, RewriteReport), SynthError> {
     let net = network_of(f)?;
-    let p = plan(&net);
+    let db = Xag4Database::build();
+    Ok(minimize_ands(&net, &db))
+}
+
+/// [`bennett`] on the network of `f` rewritten by [`xag_network`].
+pub fn bennett_xag(f: &FunctionSpec, limits: &SynthLimits) -> Result<Synthesis, SynthError> {
+    let (net, r) = xag_network(f)?;
+    let note = format!(
+        "xag: {} AND nodes as written, {} after cut rewriting ({} rounds)",
+        r.before, r.after, r.rounds
+    );
+    bennett_on(f, &net, limits, vec![note])
+}
+
+/// Bennett's compute-copy-uncompute of `net`, the network of `f`.
+fn bennett_on(
+    f: &FunctionSpec,
+    net: &Network,
+    limits: &SynthLimits,
+    mut notes: Vec<String>,
+) -> Result<Synthesis, SynthError> {
+    let p = plan(net);
     let n = f.inputs.len();
     let m = f.outputs.len();
     let full = n + m + p.needed.len();
     let budget = limits.max_qubits.unwrap_or(usize::MAX);
-    let mut notes = Vec::new();
     let schedule: Vec<Vec<usize>> = if budget >= full {
         // Plain Bennett: every node once, in topological order.
         p.needed.iter().map(|&v| vec![v]).collect()
@@ -242,7 +269,7 @@ pub fn bennett(f: &FunctionSpec, limits: &SynthLimits) -> Result<Synthesis, Synt
                     _ => line_of_node[&u],
                 }
             };
-            forward.extend(node_gates(&net, v, &lookup));
+            forward.extend(node_gates(net, v, &lookup));
             if held {
                 // Uncomputed: the line is free again.
                 line_of_node.remove(&v);

@@ -18,7 +18,7 @@ mod reed_muller;
 mod transform;
 
 pub use arith::{arith_lines, arithmetic, Registers};
-pub use bennett::{bennett, bennett_counts};
+pub use bennett::{bennett, bennett_counts, bennett_xag, xag_network};
 pub use esop::{
     esop_circuit, esop_counted, esop_of, minimize_tables, EsopWork, EXORLINK_MAX_TERMS,
     EXORLINK_WORK,
@@ -70,6 +70,11 @@ pub enum Method {
         message = "functions: logic network computed, copied, uncomputed; a qubit budget schedules recomputation"
     )]
     Bennett,
+    /// The network rewritten to fewer ANDs, then computed, copied, uncomputed.
+    #[strum(
+        message = "functions: logic network rewritten to fewest ANDs (cut rewriting with 4-input AND-minimal circuits), then as bennett"
+    )]
+    Xag,
     /// Network cut into small pieces, each from its minimum ESOP, glued by Bennett.
     #[strum(
         message = "functions: network cut into pieces of at most 4 leaves, each a minimum ESOP, glued by Bennett"
@@ -240,6 +245,11 @@ pub fn synthesize(
             check_gates(&s.circuit, limits)?;
             Ok(s)
         }
+        (SpecBody::Function(f), Method::Xag) => {
+            let s = bennett::bennett_xag(f, limits)?;
+            check_gates(&s.circuit, limits)?;
+            Ok(s)
+        }
         (SpecBody::Permutation(p), Method::Transform | Method::TransformBidir) => {
             if p.width() > TRANSFORM_MAX_LINES {
                 return Err(SynthError::NotApplicable {
@@ -272,7 +282,7 @@ pub fn synthesize(
         (SpecBody::Function(_), m) => Err(SynthError::NotApplicable {
             method: m.name(),
             kind: "function",
-            hint: "use reed-muller, esop, esop-exact, bennett, hierarchical, transform, transform-bidir or auto",
+            hint: "use reed-muller, esop, esop-exact, bennett, xag, hierarchical, transform, transform-bidir or auto",
         }),
         (SpecBody::Permutation(_), m) => Err(SynthError::NotApplicable {
             method: m.name(),
