@@ -70,9 +70,25 @@ pub fn build_with_progress(
 /// Runs every method that applies (the slow ones too), each verified when
 /// `opts.verify` asks for it; for `oraculum compare`.
 pub fn compare(spec: &Spec, opts: &BuildOptions) -> Vec<(Method, Result<Outcome, BuildError>)> {
+    compare_with_progress(spec, opts, &())
+}
+
+/// [`compare`] reporting long work to `progress`; once it is cancelled, the
+/// methods not yet run are not started and their rows say so.
+pub fn compare_with_progress(
+    spec: &Spec,
+    opts: &BuildOptions,
+    progress: &dyn Progress,
+) -> Vec<(Method, Result<Outcome, BuildError>)> {
     candidates(spec, true)
         .into_iter()
-        .map(|m| (m, build_one(spec, m, opts, &())))
+        .map(|m| {
+            if progress.cancelled() {
+                (m, Err(BuildError::Synth(SynthError::Cancelled)))
+            } else {
+                (m, build_one(spec, m, opts, progress))
+            }
+        })
         .collect()
 }
 
