@@ -335,3 +335,51 @@ def test_a_long_verification_stops_on_interrupt():
         )
     timer.join()
     assert time.monotonic() - start >= 0.5
+
+
+@pytest.mark.parametrize("spec", SPECS, ids=[p.stem for p in SPECS])
+def test_inverse_and_gate_form_are_the_cli_files(spec):
+    exe = cli()
+    inverse = subprocess.run(
+        [exe, "synth", str(spec), "--inverse"], capture_output=True, text=True, check=True
+    )
+    assert oraculum.synthesize(str(spec), inverse=True).qasm() == inverse.stdout
+    gate = subprocess.run(
+        [exe, "synth", str(spec), "--as-gate", "oracle"],
+        capture_output=True,
+        text=True,
+        check=True,
+    )
+    assert oraculum.synthesize(str(spec), as_gate="oracle").qasm() == gate.stdout
+
+
+def test_inverse_undoes_the_circuit():
+    # The circuit then its inverse is the identity on every basis state
+    # (common practice: a reversible circuit's gates in reverse order).
+    o = oraculum.synthesize(MAJORITY)
+    back = oraculum.synthesize(MAJORITY, inverse=True).qasm()
+    regs, _ = parse_qasm(o.qasm())
+    for i in range(8):
+        for y in (0, 1):
+            out = simulate(o.qasm(), {"x": i, "y": y})
+            assert simulate(back, out) == {"x": i, "y": y, **{r: 0 for r in regs if r not in "xy"}}
+    assert oraculum.verify(back, MAJORITY, inverse=True)["verdict"] == "proven"
+
+
+RENAMED = MAJORITY + '\n[registers]\nx = "key"\ny = "flag"\n'
+
+
+def test_own_register_names_are_written_and_verified(tmp_path):
+    exe = cli()
+    path = tmp_path / "vote.toml"
+    path.write_text(RENAMED)
+    run = subprocess.run([exe, "synth", str(path)], capture_output=True, text=True, check=True)
+    o = oraculum.synthesize(RENAMED)
+    assert o.qasm() == run.stdout
+    regs, _ = parse_qasm(o.qasm())
+    assert "key" in regs and "flag" in regs and "x" not in regs
+    assert [l["register"] for l in o.lines[:4]] == ["key", "key", "key", "flag"]
+    for i in range(8):
+        a, b, c = i & 1, (i >> 1) & 1, (i >> 2) & 1
+        assert simulate(o.qasm(), {"key": i})["flag"] == majority(a, b, c)
+    assert oraculum.verify(o.qasm(), RENAMED)["verdict"] == "proven"
