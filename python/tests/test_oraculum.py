@@ -383,3 +383,21 @@ def test_own_register_names_are_written_and_verified(tmp_path):
         a, b, c = i & 1, (i >> 1) & 1, (i >> 2) & 1
         assert simulate(o.qasm(), {"key": i})["flag"] == majority(a, b, c)
     assert oraculum.verify(o.qasm(), RENAMED)["verdict"] == "proven"
+
+
+def test_the_readme_example_runs_as_written(monkeypatch):
+    # The README's notebook example, run from the top folder; what its
+    # comments say it shows is checked here.
+    readme = (ROOT / "README.md").read_text()
+    section = readme[readme.index("## From Python"):]
+    block = section[section.index("```python\n") + 10:]
+    block = block[: block.index("```")]
+    monkeypatch.chdir(ROOT)
+    ns = {}
+    exec(compile(block, "README.md", "exec"), ns)
+    vote = ns["vote"]
+    assert (vote.verified, vote.method, vote.cost["toffoli"]) == (True, "reed-muller", 3)
+    assert vote.lines[3]["qubit"] == "y[0]" and vote.lines[3]["label"] == "most"
+    assert ns["spec"]["table"] == {"most": "0xe8"}
+    assert ns["rows"] and all("method" in r for r in ns["rows"])
+    assert oraculum.verify(vote.qasm(), ns["spec"])["verdict"] == "proven"
