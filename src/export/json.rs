@@ -185,3 +185,126 @@ pub struct MethodsReport {
 
 /// `cost --json`: the cost itself.
 pub type CostReport = Cost;
+
+/// One row of the table `compare` prints, flat, for callers that show it as a
+/// table (the Python package's `compare`): the columns of `oraculum compare`.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct CompareTableRow {
+    /// The method.
+    pub method: &'static str,
+    /// Whether `auto` would pick this row (fewest Toffolis among verified circuits).
+    pub best: bool,
+    /// Gates before lowering (`None` when the method made no circuit).
+    pub mct: Option<usize>,
+    /// Toffoli gates after lowering.
+    pub toffoli: Option<usize>,
+    /// CNOT gates after lowering.
+    pub cnot: Option<usize>,
+    /// NOT gates after lowering.
+    pub not: Option<usize>,
+    /// All lines, ancillae included.
+    pub qubits: Option<usize>,
+    /// 7 per Toffoli.
+    pub t_count: Option<usize>,
+    /// Seconds of synthesis, lowering and verification.
+    pub seconds: Option<f64>,
+    /// True when every basis state was checked and correct.
+    pub verified: bool,
+    /// The verdict in words (`proven exhaustively ...`, `refuted`, `not verified`).
+    pub verdict: Option<String>,
+    /// Why the method made no circuit.
+    pub error: Option<String>,
+    /// The method's notes.
+    pub notes: Vec<String>,
+}
+
+/// The rows of `compare` as [`CompareTableRow`]s.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct CompareTable {
+    /// One row per method, in the order they ran.
+    pub rows: Vec<CompareTableRow>,
+}
+
+impl CompareTable {
+    /// The table of `rows`, marking `best` (see [`crate::pipeline::best_of`]).
+    pub fn new(rows: &[(Method, Result<Outcome, BuildError>)], best: Option<Method>) -> Self {
+        let rows = rows
+            .iter()
+            .map(|(m, r)| match r {
+                Ok(o) => CompareTableRow {
+                    method: m.name(),
+                    best: Some(*m) == best,
+                    mct: Some(o.cost.mct_total()),
+                    toffoli: Some(o.cost.toffoli),
+                    cnot: Some(o.cost.cnot),
+                    not: Some(o.cost.not),
+                    qubits: Some(o.cost.qubits),
+                    t_count: Some(o.cost.t_count),
+                    seconds: Some(o.timings.synth + o.timings.lower + o.timings.verify),
+                    verified: o.verification.is_proven(),
+                    verdict: Some(match &o.verification {
+                        crate::pipeline::Verification::Ran(v) => v.summary(),
+                        _ => "not verified".into(),
+                    }),
+                    error: None,
+                    notes: o.notes.clone(),
+                },
+                Err(e) => CompareTableRow {
+                    method: m.name(),
+                    best: false,
+                    mct: None,
+                    toffoli: None,
+                    cnot: None,
+                    not: None,
+                    qubits: None,
+                    t_count: None,
+                    seconds: None,
+                    verified: false,
+                    verdict: None,
+                    error: Some(e.to_string()),
+                    notes: Vec::new(),
+                },
+            })
+            .collect();
+        CompareTable { rows }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::pipeline::{compare, BuildOptions};
+    use crate::spec::parse_spec;
+
+    #[test]
+    fn compare_table_marks_the_best_row_and_failed_rows() {
+        // Majority of three (0xe8, common practice) is ab ^ ac ^ bc: three
+        // Toffolis, the crate's doc example; a 3-input 1-output function has
+        // no permutation method.
+        let spec = parse_spec(
+            "vote.toml",
+            "kind = \"function\"\ninputs = [\"a\", \"b\", \"c\"]\noutputs = [\"most\"]\n[table]\nmost = \"0xe8\"\n",
+        )
+        .unwrap();
+        let opts = BuildOptions {
+            verify: Some(Default::default()),
+            ..Default::default()
+        };
+        let mut rows = compare(&spec, &opts);
+        rows.push((
+            Method::Transform,
+            Err(BuildError::Synth(crate::synth::SynthError::Cancelled)),
+        ));
+        let best = crate::pipeline::best_of(&rows);
+        let table = CompareTable::new(&rows, best);
+        assert_eq!(table.rows.len(), rows.len());
+        let marked: Vec<_> = table.rows.iter().filter(|r| r.best).collect();
+        assert_eq!(marked.len(), 1);
+        assert_eq!(marked[0].toffoli, Some(3));
+        assert_eq!(marked[0].t_count, Some(21));
+        let failed = table.rows.last().unwrap();
+        assert_eq!(failed.method, "transform");
+        assert!(failed.error.is_some() && failed.toffoli.is_none() && !failed.verified);
+        assert!(table.rows[..rows.len() - 1].iter().all(|r| r.verified));
+    }
+}

@@ -88,11 +88,24 @@ fn build_auto(
 /// Runs every method that applies (the slow ones too), each verified when
 /// `opts.verify` asks for it; for `oraculum compare`.
 pub fn compare(spec: &Spec, opts: &BuildOptions) -> Vec<(Method, Result<Outcome, BuildError>)> {
-    let grover = grover_facts(spec, max_states(opts), &());
+    compare_with_progress(spec, opts, &())
+}
+
+/// [`compare`] reporting long work to `progress`; once it is cancelled, the
+/// methods not yet run are not started and their rows say so.
+pub fn compare_with_progress(
+    spec: &Spec,
+    opts: &BuildOptions,
+    progress: &dyn Progress,
+) -> Vec<(Method, Result<Outcome, BuildError>)> {
+    let grover = grover_facts(spec, max_states(opts), progress);
     candidates(spec, true)
         .into_iter()
         .map(|m| {
-            let r = build_one(spec, m, opts, &()).and_then(|mut o| {
+            if progress.cancelled() {
+                return (m, Err(BuildError::Synth(SynthError::Cancelled)));
+            }
+            let r = build_one(spec, m, opts, progress).and_then(|mut o| {
                 o.grover = grover.clone()?;
                 Ok(o)
             });

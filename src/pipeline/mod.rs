@@ -7,13 +7,13 @@ mod grover;
 
 pub use build::{build_one, invert, OPTIMIZE_MAX_GATES};
 pub use choose::{
-    best_of, build, build_with_progress, candidates, compare, tradeoff, tradeoff_note,
-    TRADEOFF_MAX_NODES,
+    best_of, build, build_with_progress, candidates, compare, compare_with_progress, tradeoff,
+    tradeoff_note, TRADEOFF_MAX_NODES,
 };
 pub use grover::{grover_facts, iterations, Fact, Grover};
 
 use crate::circuit::{Circuit, Cost};
-use crate::limit::Stop;
+use crate::limit::{Limit, Stop};
 use crate::spec::OracleForm;
 use crate::synth::{Method, SynthError, SynthLimits};
 use crate::verify::{Verdict, VerifyError, VerifyOptions};
@@ -103,19 +103,29 @@ pub enum BuildError {
 }
 
 impl BuildError {
+    /// The budget that stopped the job, when a budget (not the input) did;
+    /// callers map it to the option or argument that raises it.
+    pub fn limit(&self) -> Option<Limit> {
+        match self {
+            BuildError::Synth(SynthError::Limit { kind, .. }) => Some(*kind),
+            BuildError::Synth(SynthError::Budget { .. }) => Some(Limit::Qubits),
+            BuildError::Synth(SynthError::OutOfTime { .. }) => Some(Limit::SearchSeconds),
+            BuildError::Synth(_) => None,
+            BuildError::Verify(e) => e.limit(),
+        }
+    }
+
     /// True when a resource limit, not the input, stopped the job.
     pub fn is_limit(&self) -> bool {
-        match self {
-            BuildError::Synth(e) => {
-                matches!(
-                    e,
-                    SynthError::Limit { .. }
-                        | SynthError::Budget { .. }
-                        | SynthError::OutOfTime { .. }
-                )
-            }
-            BuildError::Verify(e) => e.is_limit(),
-        }
+        self.limit().is_some()
+    }
+
+    /// True when the caller stopped the job ([`crate::Progress::cancelled`]).
+    pub fn is_cancelled(&self) -> bool {
+        matches!(
+            self,
+            BuildError::Synth(SynthError::Cancelled) | BuildError::Verify(VerifyError::Cancelled)
+        )
     }
 }
 
@@ -169,5 +179,110 @@ impl Outcome {
             inverse: self.inverse,
             grover: self.grover.as_ref(),
         }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::progress::Event;
+    use crate::spec::parse_spec;
+
+    /// Majority of three, `0xe8` (common practice).
+    fn majority() -> crate::spec::Spec {
+        parse_spec(
+            "vote.toml",
+            "kind = \"function\"\ninputs = [\"a\", \"b\", \"c\"]\noutputs = [\"most\"]\n[table]\nmost = \"0xe8\"\n",
+        )
+        .unwrap()
+    }
+
+    #[test]
+    fn each_budget_is_named_by_the_error_it_causes() {
+        let spec = majority();
+        let mut opts = BuildOptions {
+            method: Some(Method::Bennett),
+            verify: Some(VerifyOptions::default()),
+            ..Default::default()
+        };
+        // Three inputs and one output need at least four lines.
+        opts.limits.max_qubits = Some(2);
+        let e = build(&spec, &opts).unwrap_err();
+        assert_eq!(e.limit(), Some(Limit::Qubits), "{e}");
+        assert!(e.is_limit() && !e.is_cancelled());
+        opts.limits.max_qubits = None;
+        opts.limits.max_gates = 1;
+        let e = build(&spec, &opts).unwrap_err();
+        assert_eq!(e.limit(), Some(Limit::Gates), "{e}");
+        opts.limits.max_gates = SynthLimits::default().max_gates;
+        // 4 free lines are 16 states.
+        opts.verify = Some(VerifyOptions {
+            max_states: 8,
+            route: crate::verify::Route::Exhaustive,
+            ..Default::default()
+        });
+        let e = build(&spec, &opts).unwrap_err();
+        assert_eq!(e.limit(), Some(Limit::States), "{e}");
+        // A method that does not take the spec is the input's fault, no budget's.
+        opts.method = Some(Method::Structural);
+        let e = build(&spec, &opts).unwrap_err();
+        assert_eq!(e.limit(), None, "{e}");
+        assert!(!e.is_limit());
+    }
+
+    struct Stopped;
+    impl crate::progress::Progress for Stopped {
+        fn event(&self, _: Event) {}
+        fn cancelled(&self) -> bool {
+            true
+        }
+    }
+
+    /// Cancelled after the first block it reports.
+    struct AfterFirst(std::sync::atomic::AtomicBool);
+    impl crate::progress::Progress for AfterFirst {
+        fn event(&self, _: Event) {
+            self.0.store(true, std::sync::atomic::Ordering::Relaxed);
+        }
+        fn cancelled(&self) -> bool {
+            self.0.load(std::sync::atomic::Ordering::Relaxed)
+        }
+    }
+
+    #[test]
+    fn a_cancelled_exhaustive_check_ends_without_a_verdict() {
+        // 2^62 states: the check ends only because it was stopped, and must
+        // not pass over the remaining blocks one by one.
+        let spec = parse_spec(
+            "add.toml",
+            "kind = \"arithmetic\"\nop = \"add\"\nwidth = 31\n",
+        )
+        .unwrap();
+        let out = build(&spec, &BuildOptions::default()).unwrap();
+        let opts = VerifyOptions {
+            max_states: 1 << 62,
+            route: crate::verify::Route::Exhaustive,
+            ..Default::default()
+        };
+        let stop = AfterFirst(Default::default());
+        let r = crate::verify::verify_with_progress(&out.lowered, &spec, &opts, &stop);
+        assert_eq!(r, Err(VerifyError::Cancelled));
+    }
+
+    #[test]
+    fn a_cancelled_compare_starts_no_method() {
+        let spec = majority();
+        let opts = BuildOptions {
+            verify: Some(VerifyOptions::default()),
+            ..Default::default()
+        };
+        let rows = compare_with_progress(&spec, &opts, &Stopped);
+        assert_eq!(rows.len(), candidates(&spec, true).len());
+        assert!(rows
+            .iter()
+            .all(|(_, r)| matches!(r, Err(e) if e.is_cancelled())));
+        // Not cancelled, every method makes a circuit of majority.
+        let rows = compare(&spec, &opts);
+        assert!(rows.iter().all(|(_, r)| r.is_ok()));
     }
 }

@@ -119,11 +119,13 @@ pub(super) fn verify_words(
     let (lo, hi) = (first / W as u64, end.div_ceil(W as u64));
     let done = AtomicU64::new(0);
     let checked = AtomicU64::new(0);
-    let failure = (lo..hi)
+    // A cancelled block is `Some(Err(()))`, so that the search ends there as
+    // at a failure instead of passing over every remaining block.
+    let found = (lo..hi)
         .into_par_iter()
         .map_init(Work::default, |work, b| {
             if progress.cancelled() {
-                return None;
+                return Some(Err(()));
             }
             let r = checker.block(b * W as u64, first, end, work, &checked);
             let d = done.fetch_add(64 * W as u64, Ordering::Relaxed);
@@ -131,13 +133,16 @@ pub(super) fn verify_words(
                 done: (d + 64 * W as u64).min(span),
                 total: span,
             });
-            r
+            r.map(Ok)
         })
         .find_first(Option::is_some)
         .flatten();
-    if failure.is_none() && progress.cancelled() {
-        return Err(VerifyError::Cancelled);
-    }
+    let failure = match found {
+        Some(Err(())) => return Err(VerifyError::Cancelled),
+        Some(Ok(state)) => Some(state),
+        None if progress.cancelled() => return Err(VerifyError::Cancelled),
+        None => None,
+    };
     Ok(match failure {
         None => {
             let checked = checked.into_inner();
