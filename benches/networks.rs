@@ -1,5 +1,7 @@
 //! Bennett figures for BENCHMARKS.md: qubits against Toffolis under budgets,
 //! plain Bennett's gate count beside 2G + m, and the 64-input spec's time.
+//! Then pebbling's growth: random networks with reuse of 10^2 to 10^5 nodes
+//! under budgets of a half, a quarter and an eighth of their nodes.
 //! Run with `cargo bench --bench networks`.
 
 use oraculum::pipeline::build_one;
@@ -83,4 +85,99 @@ fn main() {
         "badge-match (64 inputs): {} qubits, {} Toffoli; synthesized and lowered in {synth:.4} s; with SAT proof {:.3} s ({})",
         o.cost.qubits, o.cost.toffoli, t.elapsed().as_secs_f64(), v.verification.is_proven()
     );
+    pebbling_growth();
+}
+
+/// A function spec of our own: 16 inputs and `n` shared definitions, each an
+/// XOR of two of the eight signals before it ANDed with a third; three
+/// outputs.
+fn random_network(n: usize, seed: u64) -> String {
+    let mut state = seed;
+    let mut next = move || {
+        state ^= state << 13;
+        state ^= state >> 7;
+        state ^= state << 17;
+        state
+    };
+    let inputs: Vec<String> = (0..16).map(|i| format!("\"i{i}\"")).collect();
+    let mut signals: Vec<String> = (0..16).map(|i| format!("i{i}")).collect();
+    let mut text = format!(
+        "kind = \"function\"\nname = \"grown\"\ninputs = [{}]\noutputs = [\"o0\", \"o1\", \"o2\"]\n[let]\n",
+        inputs.join(", ")
+    );
+    for k in 0..n {
+        let len = signals.len();
+        // Three distinct signals of the last eight: an XOR and an AND.
+        let i = 1 + next() as usize % 8;
+        let j = 1 + (i + next() as usize % 7) % 8;
+        let l = (1..=8).find(|&l| l != i && l != j).unwrap();
+        let (a, b, c) = (&signals[len - i], &signals[len - j], &signals[len - l]);
+        text.push_str(&format!("n{k} = \"({a} ^ {b}) & !{c}\"\n"));
+        signals.push(format!("n{k}"));
+    }
+    text.push_str(&format!(
+        "[expr]\no0 = \"n{}\"\no1 = \"n{}\"\no2 = \"n{}\"\n",
+        n - 1,
+        n - 2,
+        n - 3
+    ));
+    text
+}
+
+fn pebbling_growth() {
+    println!();
+    println!("| nodes | ancillae of plain Bennett | budget | qubits | Toffoli | seconds |");
+    println!("|---|---|---|---|---|---|");
+    for n in [100usize, 1_000, 10_000, 100_000] {
+        let s = parse_spec("grown", &random_network(n, 0x5eed + n as u64)).unwrap();
+        let mut limits = SynthLimits {
+            exact_seconds: 5.0,
+            max_gates: 100_000_000,
+            ..SynthLimits::default()
+        };
+        let t = Instant::now();
+        let plain = build_one(
+            &s,
+            Method::Bennett,
+            &BuildOptions {
+                method: Some(Method::Bennett),
+                limits,
+                verify: None,
+            },
+            &(),
+        )
+        .unwrap();
+        let ancillae = plain.cost.qubits - 19;
+        println!(
+            "| {n} | {ancillae} | none | {} | {} | {:.2} |",
+            plain.cost.qubits,
+            plain.cost.toffoli,
+            t.elapsed().as_secs_f64()
+        );
+        for share in [2usize, 4, 8] {
+            let budget = 19 + ancillae / share;
+            limits.max_qubits = Some(budget);
+            let t = Instant::now();
+            let o = build_one(
+                &s,
+                Method::Bennett,
+                &BuildOptions {
+                    method: Some(Method::Bennett),
+                    limits,
+                    verify: None,
+                },
+                &(),
+            );
+            let secs = t.elapsed().as_secs_f64();
+            match o {
+                Ok(o) => println!(
+                    "| {n} | {ancillae} | {budget} | {} | {} | {secs:.2} |",
+                    o.cost.qubits, o.cost.toffoli
+                ),
+                Err(e) => {
+                    println!("| {n} | {ancillae} | {budget} | no schedule: {e} | | {secs:.2} |")
+                }
+            }
+        }
+    }
 }

@@ -48,12 +48,13 @@ pub use export::{read_qasm, write_qasm, QasmHeader};
 pub use limit::{Limit, Stop};
 pub use lower::lower;
 pub use pipeline::{
-    build, build_with_progress, compare, BuildError, BuildOptions, Outcome, Verification,
+    build, build_with_progress, compare, invert, BuildError, BuildOptions, Outcome, Verification,
 };
 pub use progress::{Event, Progress};
 pub use source::{LocatedError, Location};
 pub use spec::{parse_spec, ArithOp, ArithSpec, FunctionSpec, OracleForm, Spec, SpecBody};
 pub use synth::{Method, SynthError, SynthLimits};
 pub use verify::{
-    verify, verify_with_progress, Counterexample, Route, Verdict, VerifyError, VerifyOptions,
+    verify, verify_inverse_with_progress, verify_with_progress, Counterexample, Route, Verdict,
+    VerifyError, VerifyOptions,
 };

@@ -209,3 +209,53 @@ fn impossible_budget_names_one_that_works() {
     let o = build_one(&spec, Method::Bennett, &with_budget(Some(needed)), &()).unwrap();
     assert!(o.verification.is_proven() && o.cost.qubits <= needed);
 }
+
+/// A 12-input scheduling predicate of our own with shared terms.
+const ROOM_PLAN: &str = "kind = \"function\"\nname = \"room-plan\"\ninputs = [\"m0\",\"m1\",\"m2\",\"m3\",\"m4\",\"m5\",\"r0\",\"r1\",\"r2\",\"r3\",\"r4\",\"r5\"]\noutputs = [\"ok\", \"tight\"]\n[let]\nclash = \"m0 & r0 | m1 & r1 | m2 & r2 | m3 & r3 | m4 & r4 | m5 & r5\"\nload = \"(m0 ^ m1 ^ m2) & (m3 | m4 | m5)\"\n[expr]\nok = \"!clash & load & (r0 | r1)\"\ntight = \"clash ^ load & r5\"\n";
+
+#[test]
+fn the_tradeoff_curve_buys_fewer_toffolis_with_every_qubit() {
+    // Room-plan's raw schedules are not monotone (SAT's schedule at 24
+    // qubits cost 100 Toffolis where 23 qubits cost 92, measured): the curve
+    // keeps only the points no smaller budget beats.
+    for (name, text) in [
+        ("room-plan", ROOM_PLAN.to_string()),
+        (
+            "shift-rota",
+            std::fs::read_to_string(repo().join("specs/shift-rota.toml")).unwrap(),
+        ),
+        (
+            "seating",
+            std::fs::read_to_string(repo().join("specs/seating.toml")).unwrap(),
+        ),
+    ] {
+        let s = parse_spec(name, &text).unwrap();
+        let curve = oraculum::pipeline::tradeoff(&s, &with_budget(None));
+        assert!(curve.len() >= 2, "{name}: {} points", curve.len());
+        for w in curve.windows(2) {
+            assert!(w[1].cost.qubits < w[0].cost.qubits, "{name}");
+            assert!(w[1].cost.toffoli > w[0].cost.toffoli, "{name}");
+        }
+        for o in &curve {
+            assert!(o.verification.is_proven(), "{name} at {}", o.cost.qubits);
+        }
+        assert_eq!(oraculum::pipeline::tradeoff_note(&s), None);
+    }
+}
+
+#[test]
+fn compare_says_when_the_tradeoff_curve_is_skipped() {
+    // 210 AND nodes: a chain of definitions past the curve's 200-node limit.
+    let mut text = String::from(
+        "kind = \"function\"\ninputs = [\"a\", \"b\", \"c\"]\noutputs = [\"f\"]\n[let]\nd0 = \"a & b\"\n",
+    );
+    for i in 1..210 {
+        let v = ["a", "b", "c"][i % 3];
+        text.push_str(&format!("d{i} = \"d{} & {v} ^ {v}\"\n", i - 1));
+    }
+    text.push_str("[expr]\nf = \"d209\"\n");
+    let s = parse_spec("long", &text).unwrap();
+    let note = oraculum::pipeline::tradeoff_note(&s).expect("a note");
+    assert!(note.contains("more than 200"), "{note}");
+    assert!(oraculum::pipeline::tradeoff(&s, &with_budget(None)).is_empty());
+}

@@ -224,3 +224,66 @@ proptest! {
         prop_assert!(toffolis(&o) <= toffolis(&c), "{} > {}", toffolis(&o), toffolis(&c));
     }
 }
+
+/// A random chain of `[let]` definitions over `n` inputs: definition `i` may
+/// read the inputs and every earlier definition; one output reads all.
+fn arb_definitions(n: usize) -> impl Strategy<Value = (Vec<TExpr>, TExpr)> {
+    (1usize..=6).prop_flat_map(move |k| {
+        let defs: Vec<_> = (0..k).map(|i| arb_expr(n + i).boxed()).collect();
+        (defs, arb_expr(n + k))
+    })
+}
+
+/// Evaluates definitions and output on `x`, the test's own way: each
+/// definition once, in order.
+fn eval_definitions(n: usize, defs: &[TExpr], out: &TExpr, x: u64) -> bool {
+    let mut v = x;
+    for (i, d) in defs.iter().enumerate() {
+        v |= (d.eval(v) as u64) << (n + i);
+    }
+    out.eval(v)
+}
+
+proptest! {
+    #![proptest_config(ProptestConfig { cases: 64, ..ProptestConfig::default() })]
+
+    /// Shared `[let]` nodes (one node per definition, referenced by every use)
+    /// give the same function as expanding each definition's text into every
+    /// use, the way definitions were read before they were shared.
+    #[test]
+    fn shared_definitions_mean_what_their_expansion_means(
+        (n, (defs, out)) in (2usize..=7).prop_flat_map(|n| (Just(n), arb_definitions(n)))
+    ) {
+        let inputs = input_names(n);
+        let mut names = inputs.clone();
+        let mut expanded = inputs.clone();
+        let mut lets = String::new();
+        for (i, d) in defs.iter().enumerate() {
+            lets.push_str(&format!("d{i} = \"{}\"\n", d.render(&names)));
+            expanded.push(format!("({})", d.render(&expanded)));
+            names.push(format!("d{i}"));
+        }
+        let quoted: Vec<String> = inputs.iter().map(|s| format!("\"{s}\"")).collect();
+        let head = format!("kind = \"function\"\ninputs = [{}]\noutputs = [\"f\"]\n", quoted.join(", "));
+        let shared = format!("{head}[let]\n{lets}[expr]\nf = \"{}\"\n", out.render(&names));
+        let inline = format!("{head}[expr]\nf = \"{}\"\n", out.render(&expanded));
+        for toml in [&shared, &inline] {
+            let o = built_with(toml, Method::Bennett);
+            prop_assert!(o.verification.is_proven(), "{:?}", o.verification);
+            for x in 0..1u64 << n {
+                let (y, rest) = run_function(&o.lowered, n, 1, x);
+                prop_assert_eq!(y == 1, eval_definitions(n, &defs, &out, x), "input {}", x);
+                prop_assert_eq!(rest, 0);
+            }
+        }
+        // And each spec proves the other's circuit.
+        let a = parse_spec("shared.toml", &shared).unwrap();
+        let b = parse_spec("inline.toml", &inline).unwrap();
+        let ca = built_with(&shared, Method::Bennett).lowered;
+        let cb = built_with(&inline, Method::Bennett).lowered;
+        let ab = verify(&ca, &b, &VerifyOptions::default()).unwrap();
+        let ba = verify(&cb, &a, &VerifyOptions::default()).unwrap();
+        prop_assert!(matches!(ab, Verdict::Proven { .. }), "{:?}", ab);
+        prop_assert!(matches!(ba, Verdict::Proven { .. }), "{:?}", ba);
+    }
+}

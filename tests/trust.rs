@@ -906,3 +906,31 @@ fn esop_limit_is_checked_before_its_cubes_are_built() {
     }
     assert_eq!(work.cubes, 0, "cubes were built before the refusal");
 }
+
+/// One gate with twelve controls lowers to `2 * 12 - 3 = 21` Toffolis
+/// (Barenco et al., Phys. Rev. A 52, 3457, 1995): under `--max-gates 2` the
+/// lowered cap is 16, so the job stops with exit 3 naming `--max-gates`, and
+/// writes nothing.
+#[test]
+fn the_lowered_size_is_checked_before_lowering() {
+    let dir = workspace();
+    let names: Vec<String> = (0..12).map(|i| format!("s{i}")).collect();
+    let spec = format!(
+        "name = \"all-seals\"\nkind = \"function\"\ninputs = [{}]\noutputs = [\"open\"]\n\n[expr]\nopen = \"{}\"\n",
+        names.iter().map(|n| format!("\"{n}\"")).collect::<Vec<_>>().join(", "),
+        names.join(" & ")
+    );
+    std::fs::write(dir.path().join("seals.toml"), spec).unwrap();
+    let args = ["synth", "seals.toml", "--method", "esop", "-o", "s.qasm"];
+    let o = run_in(dir.path(), &args);
+    assert_eq!(o.status.code(), Some(0), "{:?}", text(&o));
+    std::fs::remove_file(dir.path().join("s.qasm")).unwrap();
+    let mut tight = args.to_vec();
+    tight.extend(["--max-gates", "2"]);
+    let o = run_in(dir.path(), &tight);
+    let (_, err) = text(&o);
+    assert_eq!(o.status.code(), Some(3), "{err}");
+    assert!(err.contains("lowered gate count is 21"), "{err}");
+    assert!(err.contains("--max-gates"), "{err}");
+    assert!(!dir.path().join("s.qasm").exists());
+}

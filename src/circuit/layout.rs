@@ -21,6 +21,126 @@ pub const CONTROL: &str = "ctrl";
 /// The carry-out of an adder.
 pub const CARRY: &str = "cout";
 
+/// Words a register or gate name may not be: the statements and functions of
+/// OpenQASM 2 and the gates of `qelib1.inc` (Cross, Bishop, Smolin, Gambetta
+/// 2017), and the words and standard gates of OpenQASM 3.
+pub const QASM_WORDS: &[&str] = &[
+    "OPENQASM",
+    "include",
+    "qreg",
+    "creg",
+    "gate",
+    "opaque",
+    "barrier",
+    "measure",
+    "reset",
+    "if",
+    "pi",
+    "sin",
+    "cos",
+    "tan",
+    "exp",
+    "ln",
+    "sqrt",
+    "U",
+    "CX",
+    "u3",
+    "u2",
+    "u1",
+    "u0",
+    "u",
+    "p",
+    "cx",
+    "id",
+    "x",
+    "y",
+    "z",
+    "h",
+    "s",
+    "sdg",
+    "t",
+    "tdg",
+    "rx",
+    "ry",
+    "rz",
+    "sx",
+    "sxdg",
+    "cz",
+    "cy",
+    "swap",
+    "ch",
+    "ccx",
+    "cswap",
+    "crx",
+    "cry",
+    "crz",
+    "cu1",
+    "cp",
+    "cu3",
+    "csx",
+    "cu",
+    "rxx",
+    "rzz",
+    "rccx",
+    "rc3x",
+    "c3x",
+    "c3sqrtx",
+    "c4x",
+    "qubit",
+    "bit",
+    "def",
+    "ctrl",
+    "negctrl",
+    "inv",
+    "pow",
+    "else",
+    "for",
+    "while",
+    "return",
+    "let",
+    "const",
+    "input",
+    "output",
+    "int",
+    "uint",
+    "float",
+    "bool",
+    "angle",
+    "complex",
+    "box",
+    "delay",
+    "stretch",
+    "duration",
+    "in",
+    "end",
+    "break",
+    "continue",
+    "gphase",
+    "phase",
+    "cphase",
+    "true",
+    "false",
+    "array",
+    "durationof",
+    "extern",
+    "defcal",
+    "cal",
+    "defcalgrammar",
+    "euler",
+    "tau",
+    "im",
+];
+
+/// Whether `name` is an identifier OpenQASM 2 and 3 take for a register:
+/// a lowercase letter, then letters, digits and '_', and not one of
+/// [`QASM_WORDS`] (`x` and `y`, the library's own registers, are allowed).
+pub fn usable_register_name(name: &str) -> bool {
+    let mut chars = name.chars();
+    matches!(chars.next(), Some(c) if c.is_ascii_lowercase())
+        && chars.all(|c| c.is_ascii_alphanumeric() || c == '_')
+        && (!QASM_WORDS.contains(&name) || [INPUTS, OUTPUTS].contains(&name))
+}
+
 /// One register of a layout.
 #[derive(Clone, Debug, PartialEq, Eq)]
 pub struct Register {
@@ -77,6 +197,33 @@ impl Layout {
 }
 
 impl Circuit {
+    /// The same circuit with registers renamed: every `(from, to)` of `map`
+    /// at once (so two registers may swap names). Numbered labels (`a0`)
+    /// follow their register; gates and the phase line stay.
+    pub fn with_registers_renamed(&self, map: &[(String, String)]) -> Circuit {
+        let lines = self
+            .lines()
+            .iter()
+            .map(|l| match map.iter().find(|(from, _)| *from == l.register) {
+                Some((from, to)) => LineInfo {
+                    register: to.clone(),
+                    index: l.index,
+                    role: l.role,
+                    label: if l.label == format!("{from}{}", l.index) {
+                        format!("{to}{}", l.index)
+                    } else {
+                        l.label.clone()
+                    },
+                },
+                None => l.clone(),
+            })
+            .collect();
+        let mut c = Circuit::from_parts(lines, self.gates().to_vec())
+            .expect("the same lines as a valid circuit");
+        c.set_phase(self.phase());
+        c
+    }
+
     /// Adds one line to the ancilla register and returns it.
     pub fn add_ancilla(&mut self) -> Line {
         let index = self.ancillae;

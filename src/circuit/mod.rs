@@ -446,6 +446,22 @@ impl Circuit {
             .unwrap_or(0)
     }
 
+    /// The inverse circuit: the same lines and phase line, the gates in
+    /// reverse order (every MCT gate is its own inverse; a measured uncompute
+    /// and a temporary AND are each other's inverse).
+    pub fn inverse(&self) -> Circuit {
+        let mut c = self.clone();
+        c.gates.reverse();
+        for g in c.gates.iter_mut() {
+            g.kind = match g.kind {
+                Kind::Flip => Kind::Flip,
+                Kind::Measured => Kind::And,
+                Kind::And => Kind::Measured,
+            };
+        }
+        c
+    }
+
     /// Runs the circuit on one basis state (at most 64 lines); for tests and small tools.
     pub fn simulate(&self, state: u64) -> u64 {
         self.gates.iter().fold(state, |s, g| g.apply(s))

@@ -64,9 +64,8 @@ pub enum Command {
         /// Skip verification; the report says the circuit was not checked.
         #[arg(long)]
         no_verify: bool,
-        /// Output format of the circuit.
-        #[arg(long, value_enum, default_value = "qasm")]
-        format: Format,
+        #[command(flatten)]
+        form: FormArgs,
         #[command(flatten)]
         limits: LimitArgs,
     },
@@ -80,6 +79,12 @@ pub enum Command {
         /// Another circuit it should be equivalent to (proven by SAT).
         #[arg(long)]
         against: Option<PathBuf>,
+        /// Prove the circuit realizes the inverse of the spec's map.
+        #[arg(long, requires = "spec", conflicts_with = "shard")]
+        inverse: bool,
+        /// The file's register names and the spec's registers they stand for, e.g. key=x,flag=y (the spec's [registers] are applied too).
+        #[arg(long, value_name = "NAME=REGISTER,...", requires = "spec")]
+        registers: Option<String>,
         /// Print the verdict as one JSON object.
         #[arg(long)]
         json: bool,
@@ -186,6 +191,20 @@ pub enum Command {
     },
     /// Print the manual page (roff), for `man -l -` or a man folder.
     Man,
+}
+
+/// How `synth` shapes the circuit it writes.
+#[derive(clap::Args)]
+pub struct FormArgs {
+    /// Output format of the circuit.
+    #[arg(long, value_enum, default_value = "qasm")]
+    pub format: Format,
+    /// Write the circuit as an OpenQASM 2 gate definition named NAME (every line an argument, ancillae entering and leaving at |0>) and one application of it.
+    #[arg(long, value_name = "NAME")]
+    pub as_gate: Option<String>,
+    /// Write the inverse circuit (the gates in reverse order), verified against the inverse of the spec's map.
+    #[arg(long)]
+    pub inverse: bool,
 }
 
 #[derive(clap::Args)]

@@ -27,6 +27,80 @@ pub fn load_spec(path: &Path) -> Result<Spec, Failure> {
     Ok(parse_spec(&path.display().to_string(), &text)?)
 }
 
+/// Parses `--registers OWN=STD,...`: a file's register names and the
+/// standard names they stand for.
+pub fn parse_register_map(text: &str) -> Result<Vec<(String, String)>, Failure> {
+    let mut out = Vec::new();
+    for part in text.split(',') {
+        let Some((from, to)) = part.split_once('=') else {
+            return Err(Failure::bad(format!(
+                "--registers takes NAME=REGISTER pairs separated by commas, for example key=x,flag=y; got '{part}'"
+            )));
+        };
+        let (from, to) = (from.trim(), to.trim());
+        for name in [from, to] {
+            if name.is_empty() || !name.chars().all(|c| c.is_ascii_alphanumeric() || c == '_') {
+                return Err(Failure::bad(format!(
+                    "--registers: '{name}' is not a register name"
+                )));
+            }
+        }
+        if out.iter().any(|(f, _): &(String, String)| f == from) {
+            return Err(Failure::bad(format!(
+                "--registers: '{from}' is mapped twice"
+            )));
+        }
+        out.push((from.to_string(), to.to_string()));
+    }
+    Ok(out)
+}
+
+/// Renames the registers of a circuit read from `path` to the standard names
+/// the verifier binds by: the spec's `[registers]` backwards for the names the
+/// file has, then `extra` (from `--registers`), which must name registers the
+/// file has. Refuses a renaming that gives two registers one name.
+pub fn standard_names(
+    path: &Path,
+    c: Circuit,
+    spec: &Spec,
+    extra: &[(String, String)],
+) -> Result<Circuit, Failure> {
+    let present: Vec<String> = c.registers().into_iter().map(|(n, _)| n).collect();
+    for (from, _) in extra {
+        if !present.contains(from) {
+            return Err(Failure::bad(format!(
+                "{}: --registers names '{from}', which is not a register of the file (it has {})",
+                path.display(),
+                present.join(", ")
+            )));
+        }
+    }
+    let mut map: Vec<(String, String)> = extra.to_vec();
+    for (own, std) in spec.registers_back() {
+        if present.contains(&own) && !map.iter().any(|(f, _)| *f == own) {
+            map.push((own, std));
+        }
+    }
+    if map.is_empty() {
+        return Ok(c);
+    }
+    let mut finals: Vec<&str> = Vec::new();
+    for name in &present {
+        let to = map
+            .iter()
+            .find(|(f, _)| f == name)
+            .map_or(name.as_str(), |(_, t)| t.as_str());
+        if finals.contains(&to) {
+            return Err(Failure::bad(format!(
+                "{}: renaming the registers would give two of them the name '{to}'",
+                path.display()
+            )));
+        }
+        finals.push(to);
+    }
+    Ok(c.with_registers_renamed(&map))
+}
+
 /// Reads an OpenQASM 2 file within `max_gates` gates.
 pub fn load_circuit(path: &Path, max_gates: usize) -> Result<Circuit, Failure> {
     let text = read_text(path)?;

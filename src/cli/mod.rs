@@ -137,7 +137,7 @@ fn dispatch(cmd: Command) -> Result<i32, Failure> {
             method,
             json,
             no_verify,
-            format,
+            form,
             limits,
         } => commands::synth::run(
             &spec,
@@ -145,13 +145,15 @@ fn dispatch(cmd: Command) -> Result<i32, Failure> {
             method.0,
             json,
             no_verify,
-            format,
+            &form,
             &limits,
         ),
         Command::Verify {
             circuit,
             spec,
             against,
+            inverse,
+            registers,
             json,
             max_states,
             method,
@@ -165,6 +167,10 @@ fn dispatch(cmd: Command) -> Result<i32, Failure> {
                 route: method,
                 sat_seconds,
             };
+            let names = match &registers {
+                Some(text) => files::parse_register_map(text)?,
+                None => Vec::new(),
+            };
             match (spec, against) {
                 (_, Some(other)) => {
                     commands::verify::against(&circuit, &other, json, &opts, max_gates)
@@ -176,9 +182,16 @@ fn dispatch(cmd: Command) -> Result<i32, Failure> {
                         &k,
                         output.as_deref(),
                         &opts,
-                        max_gates,
+                        (max_gates, &names),
                     ),
-                    None => commands::verify::file(&circuit, &spec, json, &opts, max_gates),
+                    None => commands::verify::file(
+                        &circuit,
+                        &spec,
+                        json,
+                        inverse,
+                        &opts,
+                        (max_gates, &names),
+                    ),
                 },
                 (None, None) => Err(Failure::bad("verify needs --spec or --against")),
             }

@@ -39,6 +39,9 @@ pub struct VerifyReport<'a> {
     /// Seconds the check took.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub seconds: Option<f64>,
+    /// Present and true when the check was against the inverse of the spec's map.
+    #[serde(skip_serializing_if = "std::ops::Not::not")]
+    pub inverse: bool,
 }
 
 /// One row of `compare --json`: a method's build report, or why it made no circuit.
@@ -80,6 +83,9 @@ pub struct CompareReport<'a> {
     pub best: Option<&'static str>,
     /// Qubits against Toffolis, bennett with a qubit budget.
     pub tradeoff: Vec<TradeoffPoint>,
+    /// Why there is no trade-off curve, when a limit skipped it.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub tradeoff_note: Option<String>,
 }
 
 impl<'a> CompareReport<'a> {
@@ -113,6 +119,7 @@ impl<'a> CompareReport<'a> {
                     verified: o.verification.is_proven(),
                 })
                 .collect(),
+            tradeoff_note: None,
         }
     }
 }

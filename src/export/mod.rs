@@ -1,11 +1,13 @@
 //! Writers and readers: OpenQASM 2 (both ways), a plain text listing, drawings and the JSON reports.
 
 mod draw;
+mod gatedef;
 pub mod json;
 mod qasm2;
 mod text;
 
 pub use draw::{draw_svg, draw_text};
+pub use gatedef::write_qasm_gate;
 pub use qasm2::{
     read_qasm, read_qasm_with, write_qasm, QasmHeader, ReadError, ReadLimits, WriteError,
     DEFAULT_MAX_GATES,

@@ -1,4 +1,4 @@
-//! OpenQASM 2 (Cross, Bishop, Smolin, Gambetta 2017): write lowered circuits, read `x`/`cx`/`ccx` files.
+//! OpenQASM 2 (Cross, Bishop, Smolin, Gambetta 2017): write lowered circuits (plain or in gate form), read `x`/`cx`/`ccx` files and gate definitions of them.
 
 use crate::circuit::{Circuit, Control, Cost, Gate, Line, LineInfo, Role};
 use crate::source::{LocatedError, Source};
@@ -13,6 +13,8 @@ pub struct QasmHeader {
     pub method: Option<String>,
     /// The cost report.
     pub cost: Option<Cost>,
+    /// The circuit is the inverse of the spec's map.
+    pub inverse: bool,
 }
 
 /// A circuit that OpenQASM 2 with `qelib1.inc` cannot express as is.
@@ -24,6 +26,13 @@ pub enum WriteError {
     /// A register name that OpenQASM 2 does not allow.
     #[error("register name '{0}' is not an OpenQASM 2 identifier")]
     BadRegister(String),
+    /// A gate name that is not an identifier, or is taken by OpenQASM 2, `qelib1.inc` or a register.
+    #[error("'{0}' cannot name the gate: it must start with a lowercase letter, hold only letters, digits and '_', and not be an OpenQASM 2 word, a qelib1.inc gate or a register's name")]
+    BadGateName(String),
+    /// A gate definition cannot measure: a circuit with measured uncomputes
+    /// has no gate form.
+    #[error("gate {0} is a measured uncompute, which a gate definition cannot hold; write the circuit without --as-gate or with --uncompute toffoli")]
+    MeasuredInGate(usize),
 }
 
 fn role_word(r: Role) -> &'static str {
@@ -63,6 +72,14 @@ fn creg_name(c: &Circuit) -> String {
 /// the X returns `t` to 0. A temporary AND is written as `ccx` (conjugated
 /// by `x` for a negative control): it acts as one on its clean target.
 pub fn write_qasm(c: &Circuit, header: &QasmHeader) -> Result<String, WriteError> {
+    write_with(c, header, None)
+}
+
+pub(super) fn write_with(
+    c: &Circuit,
+    header: &QasmHeader,
+    gate: Option<&str>,
+) -> Result<String, WriteError> {
     let mut s = String::new();
     s.push_str("OPENQASM 2.0;\ninclude \"qelib1.inc\";\n");
     let _ = writeln!(s, "// written by oraculum {}", env!("CARGO_PKG_VERSION"));
@@ -71,6 +88,11 @@ pub fn write_qasm(c: &Circuit, header: &QasmHeader) -> Result<String, WriteError
     }
     if let Some(m) = &header.method {
         let _ = writeln!(s, "// method: {m}");
+    }
+    if header.inverse {
+        s.push_str(
+            "// inverse: this circuit undoes the spec's map (check it with verify --inverse)\n",
+        );
     }
     if let Some(cost) = &header.cost {
         let _ = writeln!(
@@ -126,9 +148,8 @@ pub fn write_qasm(c: &Circuit, header: &QasmHeader) -> Result<String, WriteError
         let info = &c.lines()[l.index()];
         format!("{}[{}]", info.register, info.index)
     };
-    if let Some(p) = c.phase() {
-        let _ = writeln!(s, "x {};\nh {};", q(p), q(p));
-    }
+    let mut body = String::new();
+    let args = super::gatedef::argument_names(c);
     for (k, g) in c.gates().iter().enumerate() {
         if g.is_measured() {
             let t = q(g.target());
@@ -174,15 +195,35 @@ pub fn write_qasm(c: &Circuit, header: &QasmHeader) -> Result<String, WriteError
         if g.controls().iter().any(|c| !c.positive) {
             return Err(WriteError::NotLowered(k));
         }
-        let ctl: Vec<String> = g.controls().iter().map(|c| q(c.line)).collect();
-        let t = q(g.target());
+        let name = |l: Line| match gate {
+            Some(_) => args[l.index()].clone(),
+            None => q(l),
+        };
+        let indent = if gate.is_some() { "  " } else { "" };
+        let ctl: Vec<String> = g.controls().iter().map(|c| name(c.line)).collect();
+        let t = name(g.target());
         let _ = match ctl.len() {
-            0 => writeln!(s, "x {t};"),
-            1 => writeln!(s, "cx {},{t};", ctl[0]),
-            2 => writeln!(s, "ccx {},{},{t};", ctl[0], ctl[1]),
+            0 => writeln!(body, "{indent}x {t};"),
+            1 => writeln!(body, "{indent}cx {},{t};", ctl[0]),
+            2 => writeln!(body, "{indent}ccx {},{},{t};", ctl[0], ctl[1]),
             _ => return Err(WriteError::NotLowered(k)),
         };
     }
+    if let Some(g) = gate {
+        // The definition goes before the declarations, which OpenQASM 2 allows.
+        let decl_at = s.find("qreg ").unwrap_or(s.len());
+        let def = format!(
+            "// gate {g}: argument k is line k above; the ancillae are arguments (a gate body cannot allocate) that enter at |0> and leave at |0>\ngate {g} {} {{\n{body}}}\n",
+            args.join(",")
+        );
+        s.insert_str(decl_at, &def);
+        let all: Vec<String> = (0..c.width() as u32).map(|k| q(Line(k))).collect();
+        body = format!("{g} {};\n", all.join(","));
+    }
+    if let Some(p) = c.phase() {
+        let _ = writeln!(s, "x {};\nh {};", q(p), q(p));
+    }
+    s.push_str(&body);
     if let Some(p) = c.phase() {
         let _ = writeln!(s, "h {};\nx {};", q(p), q(p));
     }
@@ -190,16 +231,23 @@ pub fn write_qasm(c: &Circuit, header: &QasmHeader) -> Result<String, WriteError
 }
 
 impl crate::pipeline::Outcome {
+    fn header(&self) -> QasmHeader {
+        QasmHeader {
+            name: self.name.clone(),
+            method: Some(self.method.name().to_string()),
+            cost: Some(self.cost.clone()),
+            inverse: self.inverse,
+        }
+    }
+
     /// The lowered circuit as OpenQASM 2, with the header of design.md.
     pub fn qasm(&self) -> Result<String, WriteError> {
-        write_qasm(
-            &self.lowered,
-            &QasmHeader {
-                name: self.name.clone(),
-                method: Some(self.method.name().to_string()),
-                cost: Some(self.cost.clone()),
-            },
-        )
+        write_qasm(&self.lowered, &self.header())
+    }
+
+    /// The lowered circuit as OpenQASM 2 in gate form ([`super::write_qasm_gate`]).
+    pub fn qasm_gate(&self, name: &str) -> Result<String, WriteError> {
+        super::gatedef::write_qasm_gate(&self.lowered, &self.header(), name)
     }
 }
 
@@ -319,7 +367,10 @@ pub fn read_qasm(path: &str, text: &str) -> Result<Circuit, ReadError> {
 /// declarations and `barrier`s are read (their operands must be declared);
 /// a register operand without an index applies the gate across the
 /// register, as OpenQASM 2 defines, and the expansion is counted against
-/// `limits` before it is made. A phase oracle's wrapper, `x q; h q;` before
+/// `limits` before it is made. `gate` definitions whose bodies hold `x`,
+/// `cx`, `CX`, `ccx`, `barrier` and earlier definitions are expanded where
+/// they are applied, after their arity, their arguments (distinct, declared)
+/// and the gate budget are checked. A phase oracle's wrapper, `x q; h q;` before
 /// every gate and `h q; x q;` after them on one qubit, is read as the
 /// circuit's phase line ([`Circuit::phase`]); the verifier then checks that it
 /// is the line the spec names. Measurement, reset and classical control are
@@ -338,8 +389,17 @@ pub fn read_qasm_with(path: &str, text: &str, limits: &ReadLimits) -> Result<Cir
     // Positions (in `gates`) and lines of `h` statements, with their offsets.
     let mut hadamards: Vec<(usize, u32, usize)> = Vec::new();
     let mut seen_version = false;
+    let mut defs = super::gatedef::Defs::default();
     let mut start = 0usize;
     while start < clean.len() {
+        let def_at = start + (clean[start..].len() - clean[start..].trim_start().len());
+        if seen_version
+            && clean[def_at..].starts_with("gate")
+            && clean[def_at + 4..].starts_with(|c: char| c.is_whitespace())
+        {
+            start = super::gatedef::read_definition(&src, &clean, def_at, &mut defs)?;
+            continue;
+        }
         let end = match clean[start..].find(';') {
             Some(k) => start + k,
             None => {
@@ -595,6 +655,10 @@ pub fn read_qasm_with(path: &str, text: &str, limits: &ReadLimits) -> Result<Cir
                     gates.push(g);
                 }
             }
+            name if defs.find(name).is_some() => {
+                let ops = parse_operands(&src, &regs, rest, rest_at)?;
+                super::gatedef::apply(&src, &defs, name, &ops, rest_at, &mut gates, limits)?;
+            }
             "" => {
                 return Err(src
                     .error(
@@ -606,7 +670,7 @@ pub fn read_qasm_with(path: &str, text: &str, limits: &ReadLimits) -> Result<Cir
             other => {
                 return Err(src
                     .error(at, format!("'{other}' is not read by oraculum"))
-                    .with_hint("oraculum reads qreg, creg, x, cx, CX, ccx and barrier, and h around a phase oracle")
+                    .with_hint("oraculum reads qreg, creg, x, cx, CX, ccx, barrier, gate definitions of those, and h around a phase oracle")
                     .into());
             }
         }
@@ -739,30 +803,6 @@ fn parse_operands(
 #[cfg(test)]
 mod tests {
     use super::*;
-
-    #[test]
-    fn reads_what_it_writes_and_refuses_the_rest() {
-        let text = "OPENQASM 2.0;\ninclude \"qelib1.inc\"; // the standard library\nqreg x[2];\nqreg y[1];\ncreg c[1];\nccx x[0],x[1],y[0];\nCX x[0], y[0];\nx y;\nbarrier x;\n";
-        let c = read_qasm("t.qasm", text).unwrap();
-        assert_eq!(c.width(), 3);
-        assert_eq!(
-            c.gates(),
-            &[Gate::toffoli(0, 1, 2), Gate::cnot(0, 2), Gate::not(2)]
-        );
-        let again = write_qasm(&c, &QasmHeader::default()).unwrap();
-        assert_eq!(read_qasm("again", &again).unwrap().gates(), c.gates());
-
-        let e = read_qasm("t.qasm", "OPENQASM 2.0;\nqreg q[2];\nh q[0];\n").unwrap_err();
-        let e = e.located().unwrap();
-        assert_eq!((e.location.line, e.location.column), (3, 1));
-        let e = read_qasm("t.qasm", "OPENQASM 2.0;\nqreg q[2];\ncx q[0], q[5];\n").unwrap_err();
-        let e = e.located().unwrap();
-        assert_eq!((e.location.line, e.location.column), (3, 10));
-        let e = read_qasm("t.qasm", "OPENQASM 2.0;\nqreg q[2];\ncx q[1],q[1];\n").unwrap_err();
-        assert!(e.to_string().contains("same qubit"), "{e}");
-        assert!(read_qasm("t.qasm", "qreg q[2];").is_err());
-        assert!(read_qasm("t.qasm", "OPENQASM 2.0;\nqreg q[2]").is_err());
-    }
 
     // The gadget of Jones (PRA 87, 022328, 2013, Fig. 3) and Gidney (Quantum
     // 2, 74, 2018, Fig. 3) is written and read back as the same gate, with

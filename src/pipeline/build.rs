@@ -3,25 +3,41 @@
 use super::{BuildError, BuildOptions, Outcome, Timings, Verification};
 use crate::circuit::layout::OUTPUTS;
 use crate::circuit::{Circuit, Cost};
-use crate::lower::lower;
+use crate::limit::Limit;
+use crate::lower::{lower, lowered_len};
 use crate::opt::optimize;
 use crate::progress::Progress;
 use crate::spec::{OracleForm, Spec};
-use crate::synth::{synthesize, Method};
-use crate::verify::verify_with_progress;
+use crate::synth::{synthesize, Method, SynthError};
+use crate::verify::{verify_inverse_with_progress, verify_with_progress};
 use std::time::Instant;
 
 /// Most gates for which the optimizer runs.
 pub const OPTIMIZE_MAX_GATES: usize = 50_000;
 
+/// Lowering may make at most this many gates per gate the gate limit allows
+/// (16,000,000 lowered gates at the default of 2,000,000, about 0.6 GB).
+pub const LOWERED_PER_GATE: usize = 8;
+
 /// The circuit after [`optimize`] (which never makes it worse once lowered),
-/// and its lowered form.
-fn optimized(mut mct: Circuit) -> (Circuit, Circuit) {
+/// and its lowered form. The lowered size is counted, and refused past
+/// [`LOWERED_PER_GATE`] times the gate limit, before any lowered gate is built.
+fn optimized(mut mct: Circuit, max_gates: usize) -> Result<(Circuit, Circuit), SynthError> {
     if mct.gates().len() <= OPTIMIZE_MAX_GATES {
         optimize(&mut mct);
     }
+    let limit = max_gates.saturating_mul(LOWERED_PER_GATE);
+    let value = lowered_len(&mct);
+    if value > limit {
+        return Err(SynthError::Limit {
+            what: "the lowered gate count",
+            value,
+            limit,
+            kind: Limit::Gates,
+        });
+    }
     let lowered = lower(&mct);
-    (mct, lowered)
+    Ok((mct, lowered))
 }
 
 /// Synthesizes with one method, optimizes, lowers, measures, and verifies.
@@ -34,7 +50,7 @@ pub fn build_one(
     let t0 = Instant::now();
     let synthesis = synthesize(spec, method, &opts.limits, progress)?;
     let t1 = Instant::now();
-    let (mct, mut lowered) = optimized(synthesis.circuit);
+    let (mct, mut lowered) = optimized(synthesis.circuit, opts.limits.max_gates)?;
     if spec.form == OracleForm::Phase {
         lowered.set_phase(lowered.register(OUTPUTS).first().copied());
     }
@@ -60,5 +76,43 @@ pub fn build_one(
         notes: synthesis.notes,
         stop: synthesis.stop,
         form: spec.form,
+        inverse: false,
+        grover: None,
+    })
+}
+
+/// The inverse of a built oracle (its gates in reverse order, before and
+/// after lowering, with the same cost), verified against the inverse of the
+/// spec's map when `opts` asks for verification. Inverting twice gives the
+/// oracle back.
+pub fn invert(
+    out: Outcome,
+    spec: &Spec,
+    opts: &BuildOptions,
+    progress: &dyn Progress,
+) -> Result<Outcome, BuildError> {
+    let t0 = Instant::now();
+    let mct = out.mct.inverse();
+    let lowered = out.lowered.inverse();
+    let inverse = !out.inverse;
+    let verification = match &opts.verify {
+        Some(v) if inverse => {
+            Verification::Ran(verify_inverse_with_progress(&lowered, spec, v, progress)?)
+        }
+        Some(v) => Verification::Ran(verify_with_progress(&lowered, spec, v, progress)?),
+        None => Verification::Skipped { verdict: "skipped" },
+    };
+    let cost = Cost::measure(&mct, &lowered);
+    Ok(Outcome {
+        mct,
+        lowered,
+        cost,
+        verification,
+        timings: Timings {
+            verify: out.timings.verify + t0.elapsed().as_secs_f64(),
+            ..out.timings
+        },
+        inverse,
+        ..out
     })
 }

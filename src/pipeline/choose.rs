@@ -3,6 +3,7 @@
 //! qubit trade-off curve that use the same ranking.
 
 use super::build::build_one;
+use super::grover::grover_facts;
 use super::{BuildError, BuildOptions, Outcome, Verification};
 use crate::progress::Progress;
 use crate::spec::{Spec, SpecBody};
@@ -54,9 +55,25 @@ pub fn build_with_progress(
     opts: &BuildOptions,
     progress: &dyn Progress,
 ) -> Result<Outcome, BuildError> {
-    if let Some(m) = opts.method {
-        return build_one(spec, m, opts, progress);
-    }
+    let mut out = match opts.method {
+        Some(m) => build_one(spec, m, opts, progress)?,
+        None => build_auto(spec, opts, progress)?,
+    };
+    out.grover = grover_facts(spec, max_states(opts), progress)?;
+    Ok(out)
+}
+
+/// The states the verifier may simulate, also the budget of its count of marked inputs.
+fn max_states(opts: &BuildOptions) -> u64 {
+    opts.verify
+        .map_or(crate::verify::DEFAULT_MAX_STATES, |v| v.max_states)
+}
+
+fn build_auto(
+    spec: &Spec,
+    opts: &BuildOptions,
+    progress: &dyn Progress,
+) -> Result<Outcome, BuildError> {
     let mut tried: Vec<(Method, Result<Outcome, BuildError>)> = Vec::new();
     for m in candidates(spec, false) {
         if progress.cancelled() {
@@ -70,9 +87,16 @@ pub fn build_with_progress(
 /// Runs every method that applies (the slow ones too), each verified when
 /// `opts.verify` asks for it; for `oraculum compare`.
 pub fn compare(spec: &Spec, opts: &BuildOptions) -> Vec<(Method, Result<Outcome, BuildError>)> {
+    let grover = grover_facts(spec, max_states(opts), &());
     candidates(spec, true)
         .into_iter()
-        .map(|m| (m, build_one(spec, m, opts, &())))
+        .map(|m| {
+            let r = build_one(spec, m, opts, &()).and_then(|mut o| {
+                o.grover = grover.clone()?;
+                Ok(o)
+            });
+            (m, r)
+        })
         .collect()
 }
 
@@ -91,8 +115,10 @@ pub const TRADEOFF_MAX_NODES: usize = 200;
 
 /// Bennett's qubit/Toffoli trade-off for a function spec: plain Bennett, then
 /// one qubit fewer at a time until no schedule fits (or a network too large to
-/// schedule, past [`TRADEOFF_MAX_NODES`] nodes, stops it). Each point is
-/// verified as `opts` says.
+/// schedule, past [`TRADEOFF_MAX_NODES`] nodes, stops it: [`tradeoff_note`]
+/// says so). Each point is verified as `opts` says. Only the points no
+/// smaller point beats are kept: along the curve, more qubits always buy
+/// fewer Toffolis (a circuit within fewer qubits fits a larger budget too).
 pub fn tradeoff(spec: &Spec, opts: &BuildOptions) -> Vec<Outcome> {
     let SpecBody::Function(f) = &spec.body else {
         return Vec::new();
@@ -122,7 +148,30 @@ pub fn tradeoff(spec: &Spec, opts: &BuildOptions) -> Vec<Outcome> {
             Err(_) => break,
         }
     }
-    points
+    // From the fewest qubits up, keep a point only when it beats every
+    // point below it.
+    let mut front: Vec<Outcome> = Vec::with_capacity(points.len());
+    for p in points.into_iter().rev() {
+        if front.last().is_none_or(|b| p.cost.toffoli < b.cost.toffoli) {
+            front.push(p);
+        }
+    }
+    front.reverse();
+    front
+}
+
+/// Why [`tradeoff`] gives no curve for `spec`, when the reason is a limit.
+pub fn tradeoff_note(spec: &Spec) -> Option<String> {
+    let SpecBody::Function(f) = &spec.body else {
+        return None;
+    };
+    let net = network_of(f).ok()?;
+    (net.gates() > TRADEOFF_MAX_NODES).then(|| {
+        format!(
+            "the qubit trade-off curve is skipped: the network has {} nodes, more than {TRADEOFF_MAX_NODES}",
+            net.gates()
+        )
+    })
 }
 
 /// The ranking of `auto` and `compare`: within the qubit budget, then

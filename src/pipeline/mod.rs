@@ -3,11 +3,14 @@
 
 mod build;
 mod choose;
+mod grover;
 
-pub use build::{build_one, OPTIMIZE_MAX_GATES};
+pub use build::{build_one, invert, OPTIMIZE_MAX_GATES};
 pub use choose::{
-    best_of, build, build_with_progress, candidates, compare, tradeoff, TRADEOFF_MAX_NODES,
+    best_of, build, build_with_progress, candidates, compare, tradeoff, tradeoff_note,
+    TRADEOFF_MAX_NODES,
 };
+pub use grover::{grover_facts, iterations, Fact, Grover};
 
 use crate::circuit::{Circuit, Cost};
 use crate::limit::Stop;
@@ -81,6 +84,11 @@ pub struct Outcome {
     pub stop: Option<Stop>,
     /// The oracle form to export.
     pub form: OracleForm,
+    /// Whether the circuits are the inverse of the spec's map ([`invert`]).
+    pub inverse: bool,
+    /// For a one-output function spec: marked inputs, Grover iterations and
+    /// the success probability ([`grover_facts`]).
+    pub grover: Option<Grover>,
 }
 
 /// Why a build stopped before a verdict.
@@ -129,9 +137,25 @@ pub struct Report<'a> {
     /// Where the method's search stopped short of a proven optimum.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub stopped: Option<&'a Stop>,
+    /// Present and true when the circuit is the inverse of the spec's map.
+    #[serde(skip_serializing_if = "std::ops::Not::not")]
+    pub inverse: bool,
+    /// `marked`, `input_bits`, `grover_iterations`, `success_probability`:
+    /// only for one-output function specs.
+    #[serde(flatten, skip_serializing_if = "Option::is_none")]
+    pub grover: Option<&'a Grover>,
 }
 
 impl Outcome {
+    /// Gives the registers the spec's own names (`[registers]`), before and
+    /// after lowering, for the files and drawings made of the outcome.
+    pub fn rename_registers(&mut self, map: &[(String, String)]) {
+        if !map.is_empty() {
+            self.mct = self.mct.with_registers_renamed(map);
+            self.lowered = self.lowered.with_registers_renamed(map);
+        }
+    }
+
     /// The JSON-ready report.
     pub fn report(&self) -> Report<'_> {
         Report {
@@ -142,6 +166,8 @@ impl Outcome {
             seconds: self.timings,
             notes: &self.notes,
             stopped: self.stop.as_ref(),
+            inverse: self.inverse,
+            grover: self.grover.as_ref(),
         }
     }
 }

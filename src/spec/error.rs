@@ -125,6 +125,17 @@ pub enum SpecErrorKind {
         /// The op.
         op: &'static str,
     },
+    /// A `[registers]` key that is not a register of the spec.
+    NotARegister {
+        /// The key.
+        name: String,
+        /// The spec's registers, listed.
+        registers: String,
+    },
+    /// A `[registers]` value that cannot name a register.
+    BadRegisterName(String),
+    /// Two registers would have one name.
+    RegisterNameTwice(String),
     /// A lookup table with too many address bits.
     LookupTooWide(usize),
     /// A lookup table whose data has the wrong number of words.
@@ -198,6 +209,12 @@ impl fmt::Display for SpecErrorKind {
             ),
             UnknownOp { op, .. } => write!(f, "unknown op '{op}'"),
             KeyNotForOp { key, op } => write!(f, "'{key}' does not apply to op '{op}'"),
+            NotARegister { name, registers } => write!(
+                f,
+                "'{name}' in [registers] is not a register of this spec; its registers are {registers}"
+            ),
+            BadRegisterName(n) => write!(f, "'{n}' cannot name a register"),
+            RegisterNameTwice(n) => write!(f, "two registers would be named '{n}'"),
             LookupTooWide(limit) => {
                 write!(f, "a lookup table takes at most {limit} address bits")
             }
@@ -225,6 +242,9 @@ impl ErrorKind for SpecErrorKind {
                 Some("names start with a letter or '_' and hold letters, digits and '_'".into())
             }
             UnknownOp { ops, .. } => Some(format!("op is one of {}", ops.join(", "))),
+            BadRegisterName(_) => Some(
+                "a register name starts with a lowercase letter, holds letters, digits and '_', and is not an OpenQASM word or standard gate".into(),
+            ),
             _ => None,
         }
     }

@@ -29,6 +29,29 @@ pub struct Spec {
     pub body: SpecBody,
     /// `[oracle] form`.
     pub form: OracleForm,
+    /// `[registers]`: (standard name, own name) of every renamed register,
+    /// for the files written and read; the library works on the standard
+    /// names (`x`, `y`, `anc`, `a`, ...) throughout.
+    pub registers: Vec<(String, String)>,
+}
+
+impl Spec {
+    /// The own name of the standard register `name` (itself when not renamed).
+    pub fn register_name<'a>(&'a self, name: &'a str) -> &'a str {
+        self.registers
+            .iter()
+            .find(|(std, _)| std == name)
+            .map_or(name, |(_, own)| own)
+    }
+
+    /// The map from own names back to standard ones, for a file written with
+    /// the spec's names.
+    pub fn registers_back(&self) -> Vec<(String, String)> {
+        self.registers
+            .iter()
+            .map(|(std, own)| (own.clone(), std.clone()))
+            .collect()
+    }
 }
 
 /// How the oracle acts on its output.
@@ -247,32 +270,38 @@ pub fn parse_spec(path: &str, text: &str) -> Result<Spec, SpecError> {
         "function" => {
             let raw: RawFunction = serde::Deserialize::deserialize(de).map_err(toml_error)?;
             let form = v.form(&raw.oracle, raw.outputs.as_ref().map(|o| o.get_ref().len()))?;
-            let body = SpecBody::Function(v.function(&raw)?);
-            Ok(Spec {
-                name: raw.name.map(|n| n.into_inner()),
-                body,
+            let mut spec = Spec {
+                name: raw.name.as_ref().map(|n| n.get_ref().clone()),
+                body: SpecBody::Function(v.function(&raw)?),
                 form,
-            })
+                registers: Vec::new(),
+            };
+            spec.registers = v.registers(&raw.registers, &spec)?;
+            Ok(spec)
         }
         "permutation" => {
             let raw: RawPermutation = serde::Deserialize::deserialize(de).map_err(toml_error)?;
             let form = v.form(&raw.oracle, None)?;
-            let body = SpecBody::Permutation(v.permutation(&raw)?);
-            Ok(Spec {
-                name: raw.name.map(|n| n.into_inner()),
-                body,
+            let mut spec = Spec {
+                name: raw.name.as_ref().map(|n| n.get_ref().clone()),
+                body: SpecBody::Permutation(v.permutation(&raw)?),
                 form,
-            })
+                registers: Vec::new(),
+            };
+            spec.registers = v.registers(&raw.registers, &spec)?;
+            Ok(spec)
         }
         _ => {
             let raw: RawArithmetic = serde::Deserialize::deserialize(de).map_err(toml_error)?;
             let form = v.form(&raw.oracle, None)?;
-            let body = SpecBody::Arithmetic(v.arithmetic(&raw)?);
-            Ok(Spec {
-                name: raw.name.map(|n| n.into_inner()),
-                body,
+            let mut spec = Spec {
+                name: raw.name.as_ref().map(|n| n.get_ref().clone()),
+                body: SpecBody::Arithmetic(v.arithmetic(&raw)?),
                 form,
-            })
+                registers: Vec::new(),
+            };
+            spec.registers = v.registers(&raw.registers, &spec)?;
+            Ok(spec)
         }
     }
 }
@@ -302,6 +331,59 @@ impl Validator<'_> {
             "phase" => Err(self.err(&f.span(), SpecErrorKind::PhaseNeedsOneOutput)),
             other => Err(self.err(&f.span(), SpecErrorKind::UnknownForm(other.to_string()))),
         }
+    }
+
+    /// `[registers]`: each key a register of the spec (or `anc`), each value
+    /// a usable name, and no two registers named alike once renamed.
+    fn registers(
+        &self,
+        raw: &Option<raw::Section>,
+        spec: &Spec,
+    ) -> Result<Vec<(String, String)>, SpecError> {
+        let Some(section) = raw else {
+            return Ok(Vec::new());
+        };
+        let mut standard: Vec<&str> = spec.layout().sizes().iter().map(|(n, _)| *n).collect();
+        standard.push(crate::circuit::layout::ANCILLAE);
+        let mut out = Vec::new();
+        for (key, value) in section.get_ref() {
+            if !standard.contains(&key.get_ref().as_str()) {
+                return Err(self.err(
+                    &key.span(),
+                    SpecErrorKind::NotARegister {
+                        name: key.get_ref().clone(),
+                        registers: standard.join(", "),
+                    },
+                ));
+            }
+            if !crate::circuit::layout::usable_register_name(value.get_ref()) {
+                return Err(self.err(
+                    &value.span(),
+                    SpecErrorKind::BadRegisterName(value.get_ref().clone()),
+                ));
+            }
+            out.push((key.get_ref().clone(), value.get_ref().clone()));
+        }
+        // Every register's final name, renamed or not, once.
+        let mut finals: Vec<&str> = Vec::new();
+        for std in &standard {
+            let own = out
+                .iter()
+                .find(|(s, _)| s == std)
+                .map_or(*std, |(_, o)| o.as_str());
+            if finals.contains(&own) {
+                // At this register's own value, or at the renaming it clashes with.
+                let span = section
+                    .get_ref()
+                    .iter()
+                    .find(|(k, _)| k.get_ref() == std)
+                    .or_else(|| section.get_ref().iter().find(|(_, v)| v.get_ref() == own))
+                    .map_or(section.span(), |(_, v)| v.span());
+                return Err(self.err(&span, SpecErrorKind::RegisterNameTwice(own.to_string())));
+            }
+            finals.push(own);
+        }
+        Ok(out)
     }
 
     fn nonneg(&self, v: &Spanned<i64>, key: &'static str) -> Result<u64, SpecError> {

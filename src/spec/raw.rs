@@ -26,6 +26,8 @@ pub struct RawFunction {
     pub kind: Spanned<String>,
     pub name: Option<Spanned<String>>,
     pub oracle: Option<Spanned<RawOracle>>,
+    /// `[registers]`: own names for the standard registers.
+    pub registers: Option<Section>,
     pub inputs: Option<Names>,
     pub outputs: Option<Names>,
     pub table: Option<Section>,
@@ -41,6 +43,8 @@ pub struct RawPermutation {
     pub kind: Spanned<String>,
     pub name: Option<Spanned<String>>,
     pub oracle: Option<Spanned<RawOracle>>,
+    /// `[registers]`: own names for the standard registers.
+    pub registers: Option<Section>,
     pub width: Option<Spanned<i64>>,
     pub images: Option<Spanned<Vec<Spanned<i64>>>>,
 }
@@ -52,6 +56,8 @@ pub struct RawArithmetic {
     pub kind: Spanned<String>,
     pub name: Option<Spanned<String>>,
     pub oracle: Option<Spanned<RawOracle>>,
+    /// `[registers]`: own names for the standard registers.
+    pub registers: Option<Section>,
     pub op: Option<Spanned<String>>,
     pub width: Option<Spanned<i64>>,
     pub constant: Option<Spanned<Number>>,

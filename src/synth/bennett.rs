@@ -10,20 +10,28 @@
 //!
 //! With a qubit budget the order of computing and uncomputing is a reversible
 //! pebbling game on the network: a node may be computed or uncomputed only
-//! while its operands are held. The schedule is found by SAT (Meuli, Soeken,
-//! Roetteler, Bjorner, De Micheli, "Reversible pebbling game for quantum memory
-//! management", DATE 2019): one variable per node and step, the move rule as
-//! clauses, and a sequential counter (Sinz 2005) bounding the pebbles held at
-//! every step; the number of steps grows until a schedule exists. Recomputed
-//! nodes are what the smaller budget costs, in Toffolis.
+//! while its operands are held. Two strategies play it. The checkpoint schedule
+//! (`checkpoints.rs`: Bennett's recursive time-space trade-off over the
+//! topological order) takes `O(n log n)` work per budget plus its moves, and
+//! runs on a fixed grid of budgets, so its Toffoli count never rises with the
+//! budget. For networks of
+//! at most [`PEBBLE_SAT_MAX_NODES`] nodes a SAT search also runs (Meuli,
+//! Soeken, Roetteler, Bjorner, De Micheli, "Reversible pebbling game for
+//! quantum memory management", DATE 2019): one variable per node and step, the
+//! move rule as clauses, and a sequential counter (Sinz 2005) bounding the
+//! pebbles held at every step; the number of steps grows until a schedule
+//! exists. The cheaper of the two in Toffolis is used. Recomputed nodes are
+//! what the smaller budget costs.
 //!
-//! Complexity: linear in the network for plain Bennett; the SAT search is
-//! bounded by `--exact-seconds`.
+//! Complexity: linear in the network for plain Bennett; the checkpoint
+//! schedule runs a few dozen grid budgets and stops each run once it costs
+//! more than the best so far; the SAT search is bounded by
+//! `--exact-seconds` and its encoding by `--max-clauses` before it is built.
 
+use super::checkpoints::{best_on_grid, Schedule};
 use super::pebble::{pebble, Pebbling};
 use super::{network_of, SynthError, SynthLimits, Synthesis};
 use crate::circuit::{Circuit, Control, Gate, Line};
-use crate::limit::Limit;
 use crate::logic::{Lit, Network, Node};
 use crate::spec::FunctionSpec;
 use std::collections::{BTreeMap, BTreeSet};
@@ -135,6 +143,55 @@ fn node_gates(net: &Network, v: usize, line_of: &dyn Fn(usize) -> Line) -> Vec<G
     }
 }
 
+/// Most nodes for which the SAT pebbling runs beside the checkpoint schedule.
+pub const PEBBLE_SAT_MAX_NODES: usize = 150;
+
+/// Why no schedule was made.
+enum Unscheduled {
+    /// None fits; this many pebbles would.
+    Budget(usize),
+    /// A budget of the SAT search stopped it and no checkpoint schedule fits.
+    Other(SynthError),
+}
+
+/// A schedule within `pebbles` ancillae: the cheapest checkpoint schedule of the
+/// budget grid, and for networks of at most [`PEBBLE_SAT_MAX_NODES`] nodes the
+/// SAT schedule when it costs fewer Toffolis. Returns the schedule and a note
+/// on how it was found.
+fn schedule_within(
+    net: &Network,
+    p: &Plan,
+    pebbles: usize,
+    limits: &SynthLimits,
+) -> Result<(Vec<Vec<usize>>, &'static str), Unscheduled> {
+    let is_and = |v: usize| matches!(net.nodes()[v], Node::And(..));
+    let (grid, smallest) = best_on_grid(p, pebbles, &is_and);
+    let sat = if p.needed.len() <= PEBBLE_SAT_MAX_NODES {
+        let deadline = Instant::now() + Duration::from_secs_f64(limits.exact_seconds.max(0.0));
+        Some(pebble(p, pebbles, deadline, limits.max_clauses))
+    } else {
+        None
+    };
+    let by_checkpoints = |s: Schedule| s.moves.into_iter().map(|v| vec![v]).collect::<Vec<_>>();
+    match (sat, grid) {
+        (Some(Pebbling::Found(s)), g) => {
+            let toffolis = s.iter().flatten().filter(|&&v| is_and(v)).count();
+            match g {
+                Some(g) if g.toffolis < toffolis => Ok((by_checkpoints(g), "by checkpoints")),
+                _ => Ok((s, "by SAT")),
+            }
+        }
+        (_, Some(g)) => Ok((by_checkpoints(g), "by checkpoints")),
+        (Some(Pebbling::OutOfTime), None) => Err(Unscheduled::Other(SynthError::OutOfTime {
+            what: format!("the search for a schedule within {pebbles} ancillae"),
+            seconds: limits.exact_seconds,
+        })),
+        (_, None) => Err(Unscheduled::Budget(
+            smallest.unwrap_or(p.needed.len()).max(pebbles + 1),
+        )),
+    }
+}
+
 /// Bennett's compute-copy-uncompute for `f`, with a pebbling schedule when
 /// `limits.max_qubits` asks for fewer qubits than plain Bennett uses.
 pub fn bennett(f: &FunctionSpec, limits: &SynthLimits) -> Result<Synthesis, SynthError> {
@@ -150,48 +207,18 @@ pub fn bennett(f: &FunctionSpec, limits: &SynthLimits) -> Result<Synthesis, Synt
         p.needed.iter().map(|&v| vec![v]).collect()
     } else {
         let pebbles = budget.saturating_sub(n + m);
-        let deadline = Instant::now() + Duration::from_secs_f64(limits.exact_seconds.max(0.0));
-        match pebble(&p, pebbles, deadline, limits.max_clauses) {
-            Pebbling::Found(s) => {
-                notes.push(format!(
-                    "bennett: scheduled within {budget} qubits ({pebbles} ancillae for {} nodes)",
-                    p.needed.len()
-                ));
-                s
-            }
-            Pebbling::Impossible => {
-                // The smallest budget found to work; plain Bennett always does.
-                let mut needed = p.needed.len();
-                for k in pebbles + 1..p.needed.len() {
-                    match pebble(&p, k, deadline, limits.max_clauses) {
-                        Pebbling::Found(_) => {
-                            needed = k;
-                            break;
-                        }
-                        Pebbling::Impossible => {}
-                        Pebbling::OutOfTime | Pebbling::TooLarge(_) => break,
-                    }
-                }
-                return Err(SynthError::Budget {
-                    budget,
-                    needed: n + m + needed,
-                });
-            }
-            Pebbling::OutOfTime => {
-                return Err(SynthError::OutOfTime {
-                    what: format!("the search for a schedule within {budget} qubits"),
-                    seconds: limits.exact_seconds,
-                })
-            }
-            Pebbling::TooLarge(clauses) => {
-                return Err(SynthError::Limit {
-                    what: "the clause count of the pebbling encoding",
-                    value: clauses,
-                    limit: limits.max_clauses,
-                    kind: Limit::Clauses,
-                })
-            }
-        }
+        let (schedule, note) = schedule_within(&net, &p, pebbles, limits).map_err(|e| match e {
+            Unscheduled::Budget(needed) => SynthError::Budget {
+                budget,
+                needed: n + m + needed,
+            },
+            Unscheduled::Other(e) => e,
+        })?;
+        notes.push(format!(
+            "bennett: scheduled within {budget} qubits ({pebbles} ancillae for {} nodes) {note}",
+            p.needed.len()
+        ));
+        schedule
     };
     // Assign ancilla lines: each node gets a line while it is held; lines are reused.
     let mut c = Circuit::new(f.layout().lines());

@@ -6,9 +6,11 @@
 
 mod arith;
 mod bennett;
+mod checkpoints;
 mod esop;
 mod esop_exact;
 mod exact;
+mod exorlink;
 mod hierarchical;
 mod network;
 mod pebble;
@@ -18,10 +20,11 @@ mod transform;
 pub use arith::{arith_lines, arithmetic, Registers};
 pub use bennett::{bennett, bennett_counts};
 pub use esop::{
-    esop_circuit, esop_counted, esop_of, exorlink_minimize, minimize_tables, EsopWork,
-    EXORLINK_MAX_TERMS, EXORLINK_WORK,
+    esop_circuit, esop_counted, esop_of, minimize_tables, EsopWork, EXORLINK_MAX_TERMS,
+    EXORLINK_WORK,
 };
 pub use esop_exact::{exact_esop, ExactEsop, EXACT_ESOP_MAX_INPUTS};
+pub use exorlink::exorlink_minimize;
 pub use hierarchical::{hierarchical, PIECE_INPUTS};
 pub use network::network_of;
 pub use reed_muller::{reed_muller, reed_muller_coefficients};

@@ -12,8 +12,8 @@ pub(super) enum Pebbling {
     Impossible,
     /// The deadline passed first.
     OutOfTime,
-    /// The encoding would need this many clauses, over the limit.
-    TooLarge(usize),
+    /// The encoding would need more clauses than the limit allows.
+    TooLarge,
 }
 
 /// Clauses of the encoding of `steps` steps: the fixed start and end, four
@@ -46,7 +46,7 @@ pub(super) fn pebble(p: &Plan, k: usize, deadline: Instant, max_clauses: usize) 
     while steps <= 8 * count + 8 {
         let need = clauses(count, edges, k, steps);
         if need > max_clauses {
-            return Pebbling::TooLarge(need);
+            return Pebbling::TooLarge;
         }
         if Instant::now() >= deadline {
             return Pebbling::OutOfTime;

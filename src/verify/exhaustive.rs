@@ -25,7 +25,7 @@ const W: usize = BLOCK_WORDS;
 
 /// The spec's graph in the verifier's own node form (every node; the
 /// program keeps only what the outputs need).
-fn nodes_of(dag: &Dag) -> Vec<Node> {
+pub(super) fn nodes_of(dag: &Dag) -> Vec<Node> {
     dag.terms()
         .iter()
         .map(|t| match *t {

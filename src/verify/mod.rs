@@ -13,6 +13,7 @@
 //! before the next block, and blocks run in parallel.
 
 mod bind;
+mod count;
 mod eval;
 mod exhaustive;
 mod kernel;
@@ -24,13 +25,14 @@ mod shard;
 mod verdict;
 
 pub use bind::free_lines;
+pub use count::count_marked;
 pub use sat::{circuits_equivalent, sat_equivalence, SatError, SatOutcome, SAT_MAX_TABLE_INPUTS};
 pub use shard::{
     fingerprint, merge_shards, verify_shard, ShardError, ShardResult, MAX_SHARDS, SHARD_FORMAT,
 };
 pub use verdict::{Counterexample, RegisterValue, Verdict};
 
-use crate::circuit::Circuit;
+use crate::circuit::{Circuit, Gate, Kind};
 use crate::limit::Limit;
 use crate::progress::Progress;
 use crate::spec::Spec;
@@ -204,6 +206,54 @@ pub fn verify_with_progress(
         }
         Err(e) => Err(e.into()),
     }
+}
+
+/// Proves or refutes that `circuit` realizes the inverse of `spec`'s map.
+///
+/// The verifier runs the circuit backwards (its own reversal of the gate
+/// list; x, cx and ccx are their own inverses, and a phase wrapper is the same
+/// both ways) and proves that against the map itself. That is a proof of the
+/// inverse: every spec's map is a bijection of the free lines' basis states
+/// with the ancillae at 0 (an xor oracle is its own inverse, a permutation and
+/// an arithmetic op are bijections, `add_mod`'s domain is mapped onto
+/// itself), so `C` backwards equals `f` on those states exactly when `C`
+/// equals `f^-1` on them. A refutation names a state of the backward run.
+pub fn verify_inverse_with_progress(
+    circuit: &Circuit,
+    spec: &Spec,
+    opts: &VerifyOptions,
+    progress: &dyn Progress,
+) -> Result<Verdict, VerifyError> {
+    let mut backwards = circuit.without_gates();
+    // Backwards, a measured uncompute is the temporary AND it undoes and a
+    // temporary AND the uncompute of the AND it made (each requires what the
+    // other ensures).
+    backwards.set_gates(
+        circuit
+            .gates()
+            .iter()
+            .rev()
+            .map(|g| {
+                let c = g.controls();
+                match g.kind() {
+                    Kind::Measured => Gate::temporary_and(c[0], c[1], g.target()),
+                    Kind::And => Gate::measured(c[0], c[1], g.target()),
+                    Kind::Flip => Some(g.clone()),
+                }
+                .expect("the gate's lines are distinct")
+            })
+            .collect(),
+    );
+    let mut v = verify_with_progress(&backwards, spec, opts, progress)?;
+    if let Verdict::Refuted { counterexample } = &mut v {
+        if counterexample.state.is_some() {
+            counterexample.problem = format!(
+                "run backwards, the circuit takes 'input' to 'actual', so it takes 'actual' to 'input' where the inverse map takes 'expected' there: {}",
+                counterexample.problem
+            );
+        }
+    }
+    Ok(v)
 }
 
 /// Proves or refutes that circuits `a` and `b` act alike on every basis

@@ -5,7 +5,7 @@ use crate::cli::files::load_spec;
 use crate::cli::render::stop_hint;
 use crate::cli::{code, Failure};
 use oraculum::export::json::CompareReport;
-use oraculum::pipeline::{best_of, compare, tradeoff};
+use oraculum::pipeline::{best_of, compare, tradeoff, tradeoff_note};
 use oraculum::{Verdict, Verification};
 use std::path::Path;
 
@@ -19,13 +19,14 @@ pub fn run(spec_path: &Path, json: bool, limits: &LimitArgs) -> Result<i32, Fail
         matches!(r, Ok(o) if matches!(o.verification, Verification::Ran(Verdict::Refuted { .. })))
     });
     if json {
-        let report = CompareReport::new(
+        let mut report = CompareReport::new(
             spec_path.display().to_string(),
             spec.name.as_deref(),
             &rows,
             best,
             &curve,
         );
+        report.tradeoff_note = tradeoff_note(&spec);
         outln!(
             "{}",
             serde_json::to_string_pretty(&report).unwrap_or_default()
@@ -72,6 +73,9 @@ pub fn run(spec_path: &Path, json: bool, limits: &LimitArgs) -> Result<i32, Fail
         }
         if let Some(m) = best {
             outln!("* fewest Toffolis among verified circuits: {m} (synth --method {m} writes it)");
+        }
+        if let Some(note) = tradeoff_note(&spec) {
+            outln!("\nnote: {note}");
         }
         if curve.len() > 1 {
             outln!("\nqubits against Toffolis, bennett with --max-qubits:");

@@ -21,7 +21,7 @@ pub fn run(
         (load_circuit(input, max_gates)?, input.display().to_string())
     } else {
         let spec = load_spec(input)?;
-        let out = build(
+        let mut out = build(
             &spec,
             &BuildOptions {
                 method,
@@ -29,6 +29,7 @@ pub fn run(
             },
         )
         .map_err(build_failure)?;
+        out.rename_registers(&spec.registers);
         let title = format!(
             "{} ({}{})",
             spec.name

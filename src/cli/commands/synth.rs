@@ -1,12 +1,12 @@
 //! `oraculum synth`: build, verify and write one spec.
 
-use crate::cli::args::{Format, LimitArgs};
+use crate::cli::args::{FormArgs, Format, LimitArgs};
 use crate::cli::files::{load_spec, write_atomic};
 use crate::cli::render::{build_failure, stop_hint, Bars};
 use crate::cli::{code, Failure};
 use oraculum::export::json::SynthReport;
 use oraculum::export::listing;
-use oraculum::{build_with_progress, Method, Verdict, Verification};
+use oraculum::{build_with_progress, invert, Method, Verdict, Verification};
 use std::path::Path;
 
 pub fn run(
@@ -15,14 +15,25 @@ pub fn run(
     method: Option<Method>,
     json: bool,
     no_verify: bool,
-    format: Format,
+    form: &FormArgs,
     limits: &LimitArgs,
 ) -> Result<i32, Failure> {
+    let format = form.format;
+    if form.as_gate.is_some() && !matches!(format, Format::Qasm) {
+        return Err(Failure::bad(
+            "--as-gate writes OpenQASM; it takes --format qasm",
+        ));
+    }
     // `-o -` is standard output, as without `-o`.
     let output = output.filter(|p| *p != Path::new("-"));
     let spec = load_spec(spec_path)?;
     let opts = limits.build_options(method, !no_verify);
-    let out = build_with_progress(&spec, &opts, &Bars::new(json)).map_err(build_failure)?;
+    let bars = Bars::new(json);
+    let mut out = build_with_progress(&spec, &opts, &bars).map_err(build_failure)?;
+    if form.inverse && !matches!(out.verification, Verification::Ran(Verdict::Refuted { .. })) {
+        out = invert(out, &spec, &opts, &bars).map_err(build_failure)?;
+    }
+    out.rename_registers(&spec.registers);
     if let Verification::Ran(Verdict::Refuted { counterexample }) = &out.verification {
         if json {
             outln!(
@@ -38,9 +49,11 @@ pub fn run(
         ));
     }
     let text = match format {
-        Format::Qasm => out
-            .qasm()
-            .map_err(|e| Failure::bad(format!("cannot write OpenQASM 2: {e}")))?,
+        Format::Qasm => match &form.as_gate {
+            Some(name) => out.qasm_gate(name),
+            None => out.qasm(),
+        }
+        .map_err(|e| Failure::bad(format!("cannot write OpenQASM 2: {e}")))?,
         Format::Text => listing(&out.lowered),
     };
     if let Some(path) = output {
@@ -66,7 +79,14 @@ pub fn run(
         Verification::Ran(v) => v.summary(),
         _ => "NOT verified (--no-verify)".to_string(),
     };
-    let mut summary = format!("{label}: method {}, {verdict}\n{}\n", out.method, out.cost);
+    let what = if out.inverse { " (the inverse)" } else { "" };
+    let mut summary = format!(
+        "{label}{what}: method {}, {verdict}\n{}\n",
+        out.method, out.cost
+    );
+    if let Some(g) = &out.grover {
+        summary.push_str(&format!("{g}\n"));
+    }
     for n in &out.notes {
         summary.push_str(&format!("  note: {n}\n"));
     }

@@ -1,11 +1,15 @@
 //! `oraculum verify` (against a spec, a shard of it, or another circuit) and `oraculum merge`.
 
-use crate::cli::files::{load_circuit, load_spec, parse_circuit, read_text, write_atomic};
+use crate::cli::files::{
+    load_circuit, load_spec, parse_circuit, read_text, standard_names, write_atomic,
+};
 use crate::cli::render::{verify_failure, Bars};
 use crate::cli::{code, Failure};
 use oraculum::export::json::VerifyReport;
 use oraculum::verify::{merge_shards, verify_against, verify_shard, ShardResult};
-use oraculum::{parse_spec, verify_with_progress, Verdict, VerifyOptions};
+use oraculum::{
+    parse_spec, verify_inverse_with_progress, verify_with_progress, Verdict, VerifyOptions,
+};
 use std::path::{Path, PathBuf};
 use std::time::Instant;
 
@@ -29,14 +33,25 @@ pub fn file(
     circuit: &Path,
     spec: &Path,
     json: bool,
+    inverse: bool,
     opts: &VerifyOptions,
-    max_gates: usize,
+    (max_gates, names): (usize, &[(String, String)]),
 ) -> Result<i32, Failure> {
-    let c = load_circuit(circuit, max_gates)?;
     let s = load_spec(spec)?;
+    let c = standard_names(circuit, load_circuit(circuit, max_gates)?, &s, names)?;
     let t = Instant::now();
-    let verdict = verify_with_progress(&c, &s, opts, &Bars::new(json))
-        .map_err(|e| verify_failure(circuit, e))?;
+    let bars = Bars::new(json);
+    let verdict = if inverse {
+        verify_inverse_with_progress(&c, &s, opts, &bars)
+    } else {
+        verify_with_progress(&c, &s, opts, &bars)
+    }
+    .map_err(|e| verify_failure(circuit, e))?;
+    let against_what = if inverse {
+        format!("the inverse of {}", spec.display())
+    } else {
+        spec.display().to_string()
+    };
     let seconds = t.elapsed().as_secs_f64();
     if json {
         print_json(&VerifyReport {
@@ -45,19 +60,18 @@ pub fn file(
             spec: Some(spec.display().to_string()),
             against: None,
             seconds: Some(seconds),
+            inverse,
         });
     } else {
         match &verdict {
             Verdict::Proven { .. } => outln!(
-                "{}: {} against {}",
+                "{}: {} against {against_what}",
                 circuit.display(),
                 verdict.summary(),
-                spec.display()
             ),
             Verdict::Refuted { counterexample } => outln!(
-                "{}: refuted against {}\n{counterexample}",
+                "{}: refuted against {against_what}\n{counterexample}",
                 circuit.display(),
-                spec.display()
             ),
         }
     }
@@ -82,6 +96,7 @@ pub fn against(
             spec: None,
             against: Some(other.display().to_string()),
             seconds: None,
+            inverse: false,
         });
     } else {
         match &verdict {
@@ -123,13 +138,18 @@ pub fn shard(
     shard: &str,
     output: Option<&Path>,
     opts: &VerifyOptions,
-    max_gates: usize,
+    (max_gates, names): (usize, &[(String, String)]),
 ) -> Result<i32, Failure> {
     let (k, n) = parse_shard(shard)?;
     let circuit_text = read_text(circuit)?;
     let spec_text = read_text(spec)?;
-    let c = parse_circuit(circuit, &circuit_text, max_gates)?;
     let s = parse_spec(&spec.display().to_string(), &spec_text)?;
+    let c = standard_names(
+        circuit,
+        parse_circuit(circuit, &circuit_text, max_gates)?,
+        &s,
+        names,
+    )?;
     let r = verify_shard(
         &c,
         &s,
@@ -161,8 +181,13 @@ pub fn shard(
 pub fn merge(paths: &[PathBuf], circuit: &Path, spec: &Path, json: bool) -> Result<i32, Failure> {
     let circuit_text = read_text(circuit)?;
     let spec_text = read_text(spec)?;
-    let c = parse_circuit(circuit, &circuit_text, oraculum::export::DEFAULT_MAX_GATES)?;
     let s = parse_spec(&spec.display().to_string(), &spec_text)?;
+    let c = standard_names(
+        circuit,
+        parse_circuit(circuit, &circuit_text, oraculum::export::DEFAULT_MAX_GATES)?,
+        &s,
+        &[],
+    )?;
     let mut results = Vec::new();
     for p in paths {
         let text = read_text(p)?;
