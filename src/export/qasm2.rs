@@ -150,24 +150,34 @@ pub(super) fn write_with(
     };
     let mut body = String::new();
     let args = super::gatedef::argument_names(c);
+    let name = |l: Line| match gate {
+        Some(_) => args[l.index()].clone(),
+        None => q(l),
+    };
+    let indent = if gate.is_some() { "  " } else { "" };
     for (k, g) in c.gates().iter().enumerate() {
         if g.is_measured() {
-            let t = q(g.target());
+            let t = name(g.target());
             let cs = g.controls();
             let negatives: Vec<String> = cs
                 .iter()
                 .filter(|c| !c.positive)
-                .map(|c| q(c.line))
+                .map(|c| name(c.line))
                 .collect();
-            let _ = writeln!(s, "h {t};\nmeasure {t} -> {creg}[0];");
+            let _ = writeln!(body, "h {t};\nmeasure {t} -> {creg}[0];");
             for n in &negatives {
-                let _ = writeln!(s, "if({creg}==1) x {n};");
+                let _ = writeln!(body, "if({creg}==1) x {n};");
             }
-            let _ = writeln!(s, "if({creg}==1) cz {},{};", q(cs[0].line), q(cs[1].line));
+            let _ = writeln!(
+                body,
+                "if({creg}==1) cz {},{};",
+                name(cs[0].line),
+                name(cs[1].line)
+            );
             for n in &negatives {
-                let _ = writeln!(s, "if({creg}==1) x {n};");
+                let _ = writeln!(body, "if({creg}==1) x {n};");
             }
-            let _ = writeln!(s, "if({creg}==1) x {t};");
+            let _ = writeln!(body, "if({creg}==1) x {t};");
             continue;
         }
         if g.is_temporary_and() {
@@ -175,31 +185,26 @@ pub(super) fn write_with(
             let negatives: Vec<String> = cs
                 .iter()
                 .filter(|c| !c.positive)
-                .map(|c| q(c.line))
+                .map(|c| name(c.line))
                 .collect();
             for n in &negatives {
-                let _ = writeln!(s, "x {n};");
+                let _ = writeln!(body, "{indent}x {n};");
             }
             let _ = writeln!(
-                s,
-                "ccx {},{},{};",
-                q(cs[0].line),
-                q(cs[1].line),
-                q(g.target())
+                body,
+                "{indent}ccx {},{},{};",
+                name(cs[0].line),
+                name(cs[1].line),
+                name(g.target())
             );
             for n in &negatives {
-                let _ = writeln!(s, "x {n};");
+                let _ = writeln!(body, "{indent}x {n};");
             }
             continue;
         }
         if g.controls().iter().any(|c| !c.positive) {
             return Err(WriteError::NotLowered(k));
         }
-        let name = |l: Line| match gate {
-            Some(_) => args[l.index()].clone(),
-            None => q(l),
-        };
-        let indent = if gate.is_some() { "  " } else { "" };
         let ctl: Vec<String> = g.controls().iter().map(|c| name(c.line)).collect();
         let t = name(g.target());
         let _ = match ctl.len() {
