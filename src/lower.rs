@@ -19,6 +19,12 @@ pub fn lower(circuit: &Circuit) -> Circuit {
     let pool: Vec<Line> = (0..need).map(|_| out.add_ancilla()).collect();
     let mut gates = Vec::with_capacity(lowered_len(circuit));
     for g in circuit.gates() {
+        if !g.is_flip() {
+            // Already two controls, of either polarity (its OpenQASM form
+            // conjugates a negative one).
+            gates.push(g.clone());
+            continue;
+        }
         let negatives: Vec<Line> = g
             .controls()
             .iter()
@@ -66,6 +72,9 @@ pub fn lowered_len(circuit: &Circuit) -> usize {
         .gates()
         .iter()
         .map(|g| {
+            if !g.is_flip() {
+                return 1;
+            }
             let k = g.controls().len();
             let neg = g.controls().iter().filter(|c| !c.positive).count();
             2 * neg + if k >= 3 { 2 * k - 3 } else { 1 }

@@ -8,6 +8,11 @@ use std::fmt;
 /// T gates in one Toffoli with the 7-T decomposition (Amy, Maslov, Mosca, Roetteler 2013).
 pub const T_PER_TOFFOLI: usize = 7;
 
+/// T gates in one temporary AND (an AND computed into a clean ancilla and
+/// later uncomputed by measurement): Jones, PRA 87, 022328 (2013), Fig. 1;
+/// Gidney, Quantum 2, 74 (2018), Fig. 3. The measured uncompute costs none.
+pub const T_PER_TEMPORARY_AND: usize = 4;
+
 /// Cost of a circuit before and after lowering, as design.md defines it.
 #[derive(Clone, Debug, PartialEq, Eq, Serialize)]
 pub struct Cost {
@@ -15,8 +20,16 @@ pub struct Cost {
     pub qubits: usize,
     /// Gates before lowering, keyed by number of controls.
     pub mct: BTreeMap<usize, usize>,
-    /// Two-control gates after lowering.
+    /// Two-control flips (Toffoli gates) after lowering.
     pub toffoli: usize,
+    /// Temporary ANDs: ANDs computed into a clean ancilla and later
+    /// uncomputed by measurement (4 T each).
+    pub temporary_and: usize,
+    /// Measured uncomputes (no T gate, no Toffoli).
+    pub measured: usize,
+    /// Toffolis plus temporary ANDs: the non-Clifford gates, each one
+    /// Toffoli-like.
+    pub toffoli_equivalent: usize,
     /// One-control gates after lowering.
     pub cnot: usize,
     /// Zero-control gates after lowering.
@@ -25,7 +38,7 @@ pub struct Cost {
     pub depth: usize,
     /// Layers counting only Toffoli gates.
     pub toffoli_depth: usize,
-    /// 7 per Toffoli.
+    /// 7 per Toffoli, 4 per temporary AND.
     pub t_count: usize,
 }
 
@@ -43,20 +56,28 @@ impl Cost {
             lowered
                 .gates()
                 .iter()
-                .filter(|g| g.controls().len() == k)
+                .filter(|g| g.is_flip() && g.controls().len() == k)
                 .count()
         };
         let toffoli = count(2);
+        let temporary_and = lowered
+            .gates()
+            .iter()
+            .filter(|g| g.is_temporary_and())
+            .count();
         let (depth, toffoli_depth) = depths(lowered);
         Cost {
             qubits: lowered.width(),
             mct,
             toffoli,
+            temporary_and,
+            measured: lowered.measured_count(),
+            toffoli_equivalent: toffoli + temporary_and,
             cnot: count(1),
             not: count(0),
             depth,
             toffoli_depth,
-            t_count: toffoli * T_PER_TOFFOLI,
+            t_count: toffoli * T_PER_TOFFOLI + temporary_and * T_PER_TEMPORARY_AND,
         }
     }
 
@@ -66,7 +87,8 @@ impl Cost {
     }
 }
 
-/// Greedy layering: each gate goes one layer after the latest gate on any of its lines.
+/// Greedy layering: each gate goes one layer after the latest gate on any of
+/// its lines; Toffolis and temporary ANDs count in the Toffoli depth.
 fn depths(c: &Circuit) -> (usize, usize) {
     let mut level = vec![0usize; c.width()];
     let mut tlevel = vec![0usize; c.width()];
@@ -83,7 +105,7 @@ fn depths(c: &Circuit) -> (usize, usize) {
             t = t.max(tlevel[i]);
         }
         l += 1;
-        if g.controls().len() == 2 {
+        if g.controls().len() == 2 && !g.is_measured() {
             t += 1;
         }
         for i in lines {
@@ -109,6 +131,13 @@ impl fmt::Display for Cost {
             "  depth {:<7} toffoli depth {:<5} t-count {}",
             self.depth, self.toffoli_depth, self.t_count
         )?;
+        if self.temporary_and + self.measured > 0 {
+            writeln!(
+                f,
+                "  temporary and {:<5} measured {:<6} toffoli-equivalent {}",
+                self.temporary_and, self.measured, self.toffoli_equivalent
+            )?;
+        }
         write!(
             f,
             "  before lowering: {} gates (count x controls: {})",

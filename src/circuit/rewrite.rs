@@ -22,7 +22,8 @@ pub fn cancel_pairs(circuit: &mut Circuit) {
         let mut partner = None;
         for (k, &idx) in live.iter().enumerate().rev().take(CANCEL_WINDOW) {
             let prev = &gates[idx as usize];
-            if prev == g {
+            // A measured uncompute or a temporary AND is not its own inverse.
+            if prev == g && g.is_flip() {
                 partner = Some(k);
                 break;
             }

@@ -63,6 +63,9 @@ pub fn write_qasm_gate(c: &Circuit, header: &QasmHeader, name: &str) -> Result<S
     if !valid_gate_name(name) || c.registers().iter().any(|(r, _)| r == name) {
         return Err(WriteError::BadGateName(name.to_string()));
     }
+    if let Some(k) = c.gates().iter().position(|g| g.is_measured()) {
+        return Err(WriteError::MeasuredInGate(k));
+    }
     super::qasm2::write_with(c, header, Some(name))
 }
 

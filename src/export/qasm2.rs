@@ -29,6 +29,10 @@ pub enum WriteError {
     /// A gate name that is not an identifier, or is taken by OpenQASM 2, `qelib1.inc` or a register.
     #[error("'{0}' cannot name the gate: it must start with a lowercase letter, hold only letters, digits and '_', and not be an OpenQASM 2 word, a qelib1.inc gate or a register's name")]
     BadGateName(String),
+    /// A gate definition cannot measure: a circuit with measured uncomputes
+    /// has no gate form.
+    #[error("gate {0} is a measured uncompute, which a gate definition cannot hold; write the circuit without --as-gate or with --uncompute toffoli")]
+    MeasuredInGate(usize),
 }
 
 fn role_word(r: Role) -> &'static str {
@@ -40,7 +44,33 @@ fn role_word(r: Role) -> &'static str {
     }
 }
 
-/// Writes a lowered circuit as OpenQASM 2 with `x`, `cx` and `ccx` only.
+/// The name of the 1-bit classical register of the measured uncomputes: `m`,
+/// or the first of `m1`, `m2`, ... that no quantum register has.
+fn creg_name(c: &Circuit) -> String {
+    let taken = |n: &str| c.registers().iter().any(|(r, _)| r == n);
+    std::iter::once("m".to_string())
+        .chain((1..).map(|i| format!("m{i}")))
+        .find(|n| !taken(n))
+        .expect("some name is free")
+}
+
+/// Writes a lowered circuit as OpenQASM 2 with `x`, `cx` and `ccx`, and, for
+/// a measured uncompute of the AND of `a` and `b` held by the ancilla `t`,
+/// the gadget of Jones (PRA 87, 022328, 2013, Fig. 3) and Gidney (Quantum
+/// 2, 74, 2018, Fig. 3) on one 1-bit classical register `m`:
+///
+/// ```text
+/// h t;
+/// measure t -> m[0];
+/// if(m==1) x a;      // for a negative control only, then the same after cz
+/// if(m==1) cz a,b;
+/// if(m==1) x t;
+/// ```
+///
+/// The outcome 0 leaves `t` at 0 and the state as it was; the outcome 1
+/// leaves `t` at 1 and the phase `(-1)^(a AND b)`, which the CZ undoes, and
+/// the X returns `t` to 0. A temporary AND is written as `ccx` (conjugated
+/// by `x` for a negative control): it acts as one on its clean target.
 pub fn write_qasm(c: &Circuit, header: &QasmHeader) -> Result<String, WriteError> {
     write_with(c, header, None)
 }
@@ -70,6 +100,13 @@ pub(super) fn write_with(
             "// cost: qubits {}, toffoli {}, cnot {}, not {}, depth {}, toffoli depth {}, t-count {}",
             cost.qubits, cost.toffoli, cost.cnot, cost.not, cost.depth, cost.toffoli_depth, cost.t_count
         );
+        if cost.temporary_and + cost.measured > 0 {
+            let _ = writeln!(
+                s,
+                "// fault-tolerant cost: temporary and {} (4 T each), measured uncomputes {} (no T), toffoli-equivalent {}",
+                cost.temporary_and, cost.measured, cost.toffoli_equivalent
+            );
+        }
     }
     if let Some(p) = c.phase() {
         let l = &c.lines()[p.index()];
@@ -103,21 +140,71 @@ pub(super) fn write_with(
         }
         let _ = writeln!(s, "qreg {name}[{size}];");
     }
+    let creg = creg_name(c);
+    if c.measured_count() > 0 {
+        let _ = writeln!(s, "creg {creg}[1];");
+    }
     let q = |l: Line| {
         let info = &c.lines()[l.index()];
         format!("{}[{}]", info.register, info.index)
     };
     let mut body = String::new();
     let args = super::gatedef::argument_names(c);
+    let name = |l: Line| match gate {
+        Some(_) => args[l.index()].clone(),
+        None => q(l),
+    };
+    let indent = if gate.is_some() { "  " } else { "" };
     for (k, g) in c.gates().iter().enumerate() {
+        if g.is_measured() {
+            let t = name(g.target());
+            let cs = g.controls();
+            let negatives: Vec<String> = cs
+                .iter()
+                .filter(|c| !c.positive)
+                .map(|c| name(c.line))
+                .collect();
+            let _ = writeln!(body, "h {t};\nmeasure {t} -> {creg}[0];");
+            for n in &negatives {
+                let _ = writeln!(body, "if({creg}==1) x {n};");
+            }
+            let _ = writeln!(
+                body,
+                "if({creg}==1) cz {},{};",
+                name(cs[0].line),
+                name(cs[1].line)
+            );
+            for n in &negatives {
+                let _ = writeln!(body, "if({creg}==1) x {n};");
+            }
+            let _ = writeln!(body, "if({creg}==1) x {t};");
+            continue;
+        }
+        if g.is_temporary_and() {
+            let cs = g.controls();
+            let negatives: Vec<String> = cs
+                .iter()
+                .filter(|c| !c.positive)
+                .map(|c| name(c.line))
+                .collect();
+            for n in &negatives {
+                let _ = writeln!(body, "{indent}x {n};");
+            }
+            let _ = writeln!(
+                body,
+                "{indent}ccx {},{},{};",
+                name(cs[0].line),
+                name(cs[1].line),
+                name(g.target())
+            );
+            for n in &negatives {
+                let _ = writeln!(body, "{indent}x {n};");
+            }
+            continue;
+        }
         if g.controls().iter().any(|c| !c.positive) {
             return Err(WriteError::NotLowered(k));
         }
-        let name = |l: Line| match gate {
-            Some(_) => args[l.index()].clone(),
-            None => q(l),
-        };
-        let indent = if gate.is_some() { "  " } else { "" };
         let ctl: Vec<String> = g.controls().iter().map(|c| name(c.line)).collect();
         let t = name(g.target());
         let _ = match ctl.len() {
@@ -298,7 +385,10 @@ pub fn read_qasm_with(path: &str, text: &str, limits: &ReadLimits) -> Result<Cir
     let src = Source { path, text };
     let clean = strip_comments(text);
     let mut regs = Regs::default();
-    let mut cregs: std::collections::HashSet<String> = Default::default();
+    let mut cregs: std::collections::HashMap<String, u32> = Default::default();
+    // A measured uncompute being read, and the `h` statement just before.
+    let mut gadget: Option<Gadget> = None;
+    let mut prev_h: Option<(u32, usize)> = None;
     let mut lines: Vec<LineInfo> = Vec::new();
     let mut gates: Vec<Gate> = Vec::new();
     // Positions (in `gates`) and lines of `h` statements, with their offsets.
@@ -349,6 +439,19 @@ pub fn read_qasm_with(path: &str, text: &str, limits: &ReadLimits) -> Result<Cir
                 .error(at, "an OpenQASM 2 file starts with 'OPENQASM 2.0;'")
                 .into());
         }
+        let after_h = prev_h.take();
+        if let Some(gd) = &gadget {
+            if word != "if" {
+                return Err(src
+                    .error(at, "the measured uncompute before this statement is not complete")
+                    .with_hint(format!(
+                        "it started at the 'h' on line {}; it ends with 'if({}==1) x' on its ancilla",
+                        src.locate(gd.at).line,
+                        gd.creg
+                    ))
+                    .into());
+            }
+        }
         match word {
             "include" => {
                 if rest.trim() != "\"qelib1.inc\"" {
@@ -359,13 +462,13 @@ pub fn read_qasm_with(path: &str, text: &str, limits: &ReadLimits) -> Result<Cir
             }
             "qreg" | "creg" => {
                 let (name, size) = parse_decl(&src, rest, rest_at)?;
-                if regs.find(&name).is_some() || cregs.contains(&name) {
+                if regs.find(&name).is_some() || cregs.contains_key(&name) {
                     return Err(src
                         .error(rest_at, format!("register '{name}' is declared twice"))
                         .into());
                 }
                 if word == "creg" {
-                    cregs.insert(name);
+                    cregs.insert(name, size);
                     continue;
                 }
                 if lines.len() + size as usize > limits.max_qubits {
@@ -395,6 +498,102 @@ pub fn read_qasm_with(path: &str, text: &str, limits: &ReadLimits) -> Result<Cir
             "barrier" => {
                 parse_operands(&src, &regs, rest, rest_at)?;
             }
+            "measure" if after_h.is_some() => {
+                let (h_line, h_at) = after_h.expect("checked");
+                let (left, right) = rest
+                    .split_once("->")
+                    .ok_or_else(|| src.error(rest_at, "a measurement is 'measure q -> c[0]'"))?;
+                let ops = parse_operands(&src, &regs, left, rest_at)?;
+                let right_at = rest_at + left.len() + 2;
+                let (creg, bit) = parse_index(&src, right, right_at)?;
+                let one_bit = cregs.get(&creg) == Some(&1) && bit == Some(0);
+                if ops.as_slice() != [(h_line, None)] || !one_bit {
+                    return Err(src
+                        .error(at, "a measurement is read only as the start of a measured uncompute")
+                        .with_hint("h t; measure t -> m[0]; with m a 1-bit creg, on the qubit of the 'h' before")
+                        .into());
+                }
+                hadamards.pop();
+                gadget = Some(Gadget {
+                    target: h_line,
+                    creg,
+                    at: h_at,
+                    pre: Vec::new(),
+                    cz: None,
+                    post: 0,
+                });
+            }
+            "if" if gadget.is_some() => {
+                let gd = gadget.as_mut().expect("checked");
+                let fail = |why: &str| -> ReadError {
+                    src.error(at, format!("this is not part of a measured uncompute: {why}"))
+                        .with_hint(format!(
+                            "after 'measure t -> {c}[0];': 'if({c}==1) x' on each negative control, 'if({c}==1) cz a,b;', the same 'x', then 'if({c}==1) x t;'",
+                            c = gd.creg
+                        ))
+                        .into()
+                };
+                let body = rest.trim_start();
+                let close = body.find(')').ok_or_else(|| fail("no ')'"))?;
+                let cond: String = body[..close]
+                    .chars()
+                    .filter(|c| !c.is_whitespace())
+                    .collect();
+                if cond != format!("({}==1", gd.creg) {
+                    return Err(fail(
+                        "the condition is not on the register just measured, equal to 1",
+                    ));
+                }
+                let inner = body[close + 1..].trim_start();
+                let inner_at = at + (stmt.len() - inner.len());
+                let op_len = inner
+                    .find(|c: char| !c.is_ascii_alphanumeric())
+                    .unwrap_or(inner.len());
+                let ops = parse_operands(&src, &regs, &inner[op_len..], inner_at + op_len)?;
+                let lines: Vec<u32> = ops
+                    .iter()
+                    .map(|o| if o.1.is_none() { Some(o.0) } else { None })
+                    .collect::<Option<_>>()
+                    .ok_or_else(|| fail("a whole-register operand"))?;
+                match (&inner[..op_len], lines.as_slice(), gd.cz) {
+                    ("x", [l], None)
+                        if *l != gd.target && gd.pre.len() < 2 && !gd.pre.contains(l) =>
+                    {
+                        gd.pre.push(*l)
+                    }
+                    ("cz", [a, b], None)
+                        if a != b
+                            && *a != gd.target
+                            && *b != gd.target
+                            && gd.pre.iter().all(|p| p == a || p == b) =>
+                    {
+                        gd.cz = Some((*a, *b))
+                    }
+                    ("x", [l], Some(_)) if gd.post < gd.pre.len() && *l == gd.pre[gd.post] => {
+                        gd.post += 1
+                    }
+                    ("x", [l], Some((a, b))) if gd.post == gd.pre.len() && *l == gd.target => {
+                        let lit = |line: u32| Control {
+                            line: Line(line),
+                            positive: !gd.pre.contains(&line),
+                        };
+                        let g = Gate::measured(lit(a), lit(b), Line(gd.target))
+                            .expect("three distinct lines, checked");
+                        if gates.len() >= limits.max_gates {
+                            return Err(ReadError::Limit {
+                                file: path.to_string(),
+                                what: "the number of gates",
+                                value: gates.len() as u64 + 1,
+                                limit: limits.max_gates,
+                                kind: crate::limit::Limit::Gates,
+                            });
+                        }
+                        gates.push(g);
+                        gadget = None;
+                    }
+                    _ => return Err(fail("not the next step of the gadget")),
+                }
+            }
             "measure" | "reset" | "if" => {
                 return Err(src
                     .error(at, format!("'{word}' is not read: oraculum proves circuits of x, cx and ccx gates, and a {} in the middle of them is not something it can prove", match word {
@@ -408,7 +607,10 @@ pub fn read_qasm_with(path: &str, text: &str, limits: &ReadLimits) -> Result<Cir
             "h" => {
                 let ops = parse_operands(&src, &regs, rest, rest_at)?;
                 match ops.as_slice() {
-                    [(line, None)] => hadamards.push((gates.len(), *line, at)),
+                    [(line, None)] => {
+                        hadamards.push((gates.len(), *line, at));
+                        prev_h = Some((*line, at));
+                    }
                     _ => return Err(src.error(rest_at, "'h' is read on one qubit").into()),
                 }
             }
@@ -483,6 +685,14 @@ pub fn read_qasm_with(path: &str, text: &str, limits: &ReadLimits) -> Result<Cir
             .error(0, "an OpenQASM 2 file starts with 'OPENQASM 2.0;'")
             .into());
     }
+    if let Some(gd) = &gadget {
+        return Err(src
+            .error(
+                gd.at,
+                "this measured uncompute is not complete at the end of the file",
+            )
+            .into());
+    }
     let mut phase = None;
     if let Some(&(_, _, at)) = hadamards.first() {
         // Only the wrapper of a phase oracle: x q; h q; ... h q; x q;
@@ -507,7 +717,21 @@ pub fn read_qasm_with(path: &str, text: &str, limits: &ReadLimits) -> Result<Cir
     let mut c = Circuit::from_parts(lines, gates)
         .expect("operands were resolved against declared registers");
     c.set_phase(phase);
+    if c.measured_count() > 0 {
+        crate::circuit::measure::mark_temporary_ands(&mut c);
+    }
     Ok(c)
+}
+
+/// A measured uncompute being read: its ancilla, register, the offset of its
+/// `h`, the `x` before its `cz`, the `cz`, and how many `x` after it.
+struct Gadget {
+    target: u32,
+    creg: String,
+    at: usize,
+    pre: Vec<u32>,
+    cz: Option<(u32, u32)>,
+    post: usize,
 }
 
 fn parse_index(src: &Source, text: &str, at: usize) -> Result<(String, Option<u32>), LocatedError> {
@@ -579,4 +803,64 @@ fn parse_operands(
         }
     }
     Ok(out)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    // The gadget of Jones (PRA 87, 022328, 2013, Fig. 3) and Gidney (Quantum
+    // 2, 74, 2018, Fig. 3) is written and read back as the same gate, with
+    // a negative control conjugated by x; the compute before it is read as a
+    // temporary AND. A measurement outside the gadget is refused at its line.
+    #[test]
+    fn the_measured_uncompute_is_written_and_read_back() {
+        let lines: Vec<LineInfo> = (0..3)
+            .map(|i| LineInfo {
+                register: if i < 2 {
+                    "q"
+                } else {
+                    crate::circuit::layout::ANCILLAE
+                }
+                .into(),
+                index: if i < 2 { i } else { 0 } as u32,
+                role: if i < 2 { Role::Data } else { Role::Ancilla },
+                label: String::new(),
+            })
+            .collect();
+        let a = Control::neg(0);
+        let b = Control::pos(1);
+        let gates = vec![
+            Gate::temporary_and(a, b, Line(2)).unwrap(),
+            Gate::measured(a, b, Line(2)).unwrap(),
+        ];
+        let c = Circuit::from_parts(lines, gates.clone()).unwrap();
+        let text = write_qasm(&c, &QasmHeader::default()).unwrap();
+        assert!(text.contains("creg m[1];"), "{text}");
+        assert!(text.contains("measure anc[0] -> m[0];"), "{text}");
+        assert!(text.contains("if(m==1) cz q[0],q[1];"), "{text}");
+        let back = read_qasm("g.qasm", &text).unwrap();
+        // The temporary AND comes back as x; ccx; x, the uncompute as itself.
+        assert_eq!(back.gates().last(), gates.last());
+        assert_eq!(
+            back.gates().iter().filter(|g| g.is_temporary_and()).count(),
+            1
+        );
+        for s in 0..4u64 {
+            assert_eq!(back.simulate(s), c.simulate(s));
+        }
+
+        let stray = "OPENQASM 2.0;\ninclude \"qelib1.inc\";\nqreg q[2];\ncreg m[1];\nmeasure q[0] -> m[0];\n";
+        let e = read_qasm("s.qasm", stray).unwrap_err();
+        assert_eq!(e.located().unwrap().location.line, 5, "{e}");
+        // The cz on the wrong pair ends the gadget with an error at its line.
+        let wrong = text.replace("cz q[0],q[1]", "cz q[0],anc[0]");
+        let e = read_qasm("w.qasm", &wrong).unwrap_err();
+        let line = wrong
+            .lines()
+            .position(|l| l.contains("cz q[0],anc[0]"))
+            .unwrap()
+            + 1;
+        assert_eq!(e.located().unwrap().location.line, line, "{e}");
+    }
 }

@@ -101,9 +101,14 @@ pub(super) fn verify_words(
                 positive: c.positive,
             })
             .collect();
-        program
-            .push(g.target().0, &controls)
-            .map_err(|e| VerifyError::Binding(e.to_string()))?;
+        if g.is_measured() {
+            program.push_measured(g.target().0, &controls)
+        } else if g.is_temporary_and() {
+            program.push_and(g.target().0, &controls)
+        } else {
+            program.push(g.target().0, &controls)
+        }
+        .map_err(|e| VerifyError::Binding(e.to_string()))?;
     }
     let checker = Checker {
         circuit,
@@ -323,8 +328,11 @@ impl Checker<'_> {
         for (bit, &line) in self.binding.free.iter().enumerate() {
             rows[line] = work.inputs[bit];
         }
+        // Bit k of word i: a measured uncompute found its ancilla different
+        // from the AND it must hold, on that state.
+        let mut unheld = [0u64; W];
         self.program
-            .run_block::<W>(&mut rows)
+            .run_block_checked::<W>(&mut rows, &mut unheld)
             .expect("the program was built for this width");
         let care = self.expected(base, work);
         let expected = &work.expected;
@@ -340,7 +348,7 @@ impl Checker<'_> {
             if word < first || word >= end {
                 continue;
             }
-            let mut bad = 0u64;
+            let mut bad = unheld[i];
             for &a in &self.binding.ancillae {
                 bad |= rows[a][i];
             }
@@ -367,9 +375,30 @@ impl Checker<'_> {
             v[line] = (state >> bit) & 1 == 1;
         }
         let before = v.clone();
-        for g in self.circuit.gates() {
-            if g.controls().iter().all(|c| v[c.line.index()] == c.positive) {
-                v[g.target().index()] = !v[g.target().index()];
+        let mut unheld = None;
+        for (k, g) in self.circuit.gates().iter().enumerate() {
+            let fire = g.controls().iter().all(|c| v[c.line.index()] == c.positive);
+            let t = g.target().index();
+            if g.is_measured() {
+                if v[t] != fire && unheld.is_none() {
+                    let info = &self.circuit.lines()[t];
+                    unheld = Some(format!(
+                        "gate {k}, a measured uncompute, finds {}[{}] = {} but the AND of its controls is {}: the ancilla does not hold the AND it uncomputes",
+                        info.register, info.index, v[t] as u8, fire as u8
+                    ));
+                }
+                v[t] = false;
+            } else if g.is_temporary_and() {
+                if v[t] && unheld.is_none() {
+                    let info = &self.circuit.lines()[t];
+                    unheld = Some(format!(
+                        "gate {k}, a temporary AND, finds {}[{}] = 1: its target must be 0",
+                        info.register, info.index
+                    ));
+                }
+                v[t] = fire;
+            } else if fire {
+                v[t] = !v[t];
             }
         }
         let word = state / 64;
@@ -407,6 +436,9 @@ impl Checker<'_> {
                     break 'find;
                 }
             }
+        }
+        if let Some(u) = unheld {
+            problem = u;
         }
         Counterexample {
             state: Some(state),

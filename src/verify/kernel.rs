@@ -205,6 +205,17 @@ pub enum KernelError {
         /// How many it had.
         controls: usize,
     },
+    /// A program with measured uncomputes run without collecting their checks.
+    #[error("the program holds measured uncomputes; run it with run_block_checked")]
+    Unchecked,
+    /// A measured uncompute without exactly two controls.
+    #[error("gate {gate}: a measured uncompute takes two controls, found {controls}")]
+    MeasuredShape {
+        /// Number of the gate in push order.
+        gate: usize,
+        /// How many it had.
+        controls: usize,
+    },
     /// A block whose row count is not the program's width.
     #[error("the block has {rows} rows, the program has {width} lines")]
     BlockShape {
@@ -219,13 +230,16 @@ pub enum KernelError {
 ///
 /// Layout of `code`, gate after gate: the number of controls `n`, the target
 /// line, then `n` controls as `line << 1 | fires_on_0`. Control polarities
-/// already include the NOT gates pushed before (see the module docs).
+/// already include the NOT gates pushed before (see the module docs). A
+/// measured uncompute is [`MEASURED`], the target as `line << 1 |
+/// complemented` (a NOT pending on it), and its two controls.
 #[derive(Clone)]
 pub struct GateProgram {
     width: usize,
     code: Vec<u32>,
     gates: usize,
     pushed: usize,
+    measured: usize,
     /// Line `l` is complemented by NOT gates not yet applied.
     pending: Vec<bool>,
     dispatch: Dispatch,
@@ -253,6 +267,7 @@ impl GateProgram {
             code: Vec::new(),
             gates: 0,
             pushed: 0,
+            measured: 0,
             pending: vec![false; width],
             dispatch,
         })
@@ -300,6 +315,60 @@ impl GateProgram {
         Ok(())
     }
 
+    /// Appends a measured uncompute of the AND of `a` and `b` held by
+    /// `target`: checked (the target must equal the AND on every state, see
+    /// [`GateProgram::run_block_checked`]) and then set to 0.
+    pub fn push_measured(&mut self, target: u32, controls: &[Literal]) -> Result<(), KernelError> {
+        self.push_checked(MEASURED, target, controls)
+    }
+
+    /// Appends a temporary AND of `a` and `b` into `target`: checked (the
+    /// target must be 0 on every state, see
+    /// [`GateProgram::run_block_checked`]) and then flipped by the AND.
+    pub fn push_and(&mut self, target: u32, controls: &[Literal]) -> Result<(), KernelError> {
+        self.push_checked(AND, target, controls)
+    }
+
+    fn push_checked(
+        &mut self,
+        marker: u32,
+        target: u32,
+        controls: &[Literal],
+    ) -> Result<(), KernelError> {
+        let gate = self.pushed;
+        if controls.len() != 2 {
+            return Err(KernelError::MeasuredShape {
+                gate,
+                controls: controls.len(),
+            });
+        }
+        let width = self.width;
+        for &line in [target, controls[0].line, controls[1].line].iter() {
+            if line as usize >= width {
+                return Err(KernelError::LineOutOfRange { gate, line, width });
+            }
+        }
+        if controls.iter().any(|c| c.line == target) {
+            return Err(KernelError::ControlOnTarget { gate, line: target });
+        }
+        self.pushed += 1;
+        self.code.push(marker);
+        self.code
+            .push(target << 1 | self.pending[target as usize] as u32);
+        for c in controls {
+            let fires_on_0 = c.positive == self.pending[c.line as usize];
+            self.code.push(c.line << 1 | fires_on_0 as u32);
+        }
+        self.gates += 1;
+        self.measured += 1;
+        Ok(())
+    }
+
+    /// Measured uncomputes and temporary ANDs pushed.
+    pub fn measured(&self) -> usize {
+        self.measured
+    }
+
     /// Lines.
     pub fn width(&self) -> usize {
         self.width
@@ -330,17 +399,39 @@ impl GateProgram {
     /// basis states. Cost: one pass of `W` words per gate with controls, plus
     /// one per line left complemented by NOT gates. Any `W` works; see the
     /// module docs for the measured best.
+    /// A program with measured uncomputes is refused ([`KernelError::Unchecked`]).
     pub fn run_block<const W: usize>(&self, rows: &mut [[u64; W]]) -> Result<(), KernelError> {
+        if self.measured > 0 {
+            return Err(KernelError::Unchecked);
+        }
+        let mut bad = [0u64; W];
+        self.run_block_checked(rows, &mut bad)
+    }
+
+    /// [`GateProgram::run_block`] for any program: bit `k` of `bad[i]` is set
+    /// for each state (word `i`, bit `k`) on which some measured uncompute
+    /// found its target different from the AND of its controls, or some
+    /// temporary AND found its target not 0.
+    pub fn run_block_checked<const W: usize>(
+        &self,
+        rows: &mut [[u64; W]],
+        bad: &mut [u64; W],
+    ) -> Result<(), KernelError> {
         if rows.len() != self.width {
             return Err(KernelError::BlockShape {
                 rows: rows.len(),
                 width: self.width,
             });
         }
-        run_gates::<W>(self.dispatch, &self.code, &self.pending, rows);
+        run_gates::<W>(self.dispatch, &self.code, &self.pending, rows, bad);
         Ok(())
     }
 }
+
+/// The first word of a measured uncompute in a program's code.
+const MEASURED: u32 = u32::MAX;
+/// The first word of a temporary AND in a program's code.
+const AND: u32 = u32::MAX - 1;
 
 /// `rows` without row `t`, which is lent out mutably on its own.
 struct Others<'a, const W: usize> {
@@ -417,11 +508,62 @@ fn many<const W: usize>(t: &mut [u64; W], others: &Others<'_, W>, controls: &[u3
     }
 }
 
+/// A measured uncompute: `bad |= (t ^ mt) ^ ((a ^ ma) & (b ^ mb))`, then
+/// the target's value is 0 (its row is `mt`, the NOT still pending on it).
+#[inline(always)]
+#[allow(clippy::too_many_arguments)]
+fn measured<const W: usize>(
+    t: &mut [u64; W],
+    a: &[u64; W],
+    b: &[u64; W],
+    mt: u64,
+    ma: u64,
+    mb: u64,
+    bad: &mut [u64; W],
+) {
+    for k in 0..W {
+        bad[k] |= t[k] ^ mt ^ ((a[k] ^ ma) & (b[k] ^ mb));
+        t[k] = mt;
+    }
+}
+
+/// A temporary AND: `bad |= t ^ mt` (the target's value is not 0), then
+/// the target's value is `(a ^ ma) & (b ^ mb)` (its row that XOR `mt`).
+#[inline(always)]
+#[allow(clippy::too_many_arguments)]
+fn temporary<const W: usize>(
+    t: &mut [u64; W],
+    a: &[u64; W],
+    b: &[u64; W],
+    mt: u64,
+    ma: u64,
+    mb: u64,
+    bad: &mut [u64; W],
+) {
+    for k in 0..W {
+        bad[k] |= t[k] ^ mt;
+        t[k] = mt ^ ((a[k] ^ ma) & (b[k] ^ mb));
+    }
+}
+
 dispatched! {
     /// Applies `code` (see [`GateProgram`]) and then the pending NOTs to `rows`.
-    fn run_gates<const W: usize>(code: &[u32], pending: &[bool], rows: &mut [[u64; W]]) {
+    fn run_gates<const W: usize>(code: &[u32], pending: &[bool], rows: &mut [[u64; W]], bad: &mut [u64; W]) {
         let mut i = 0;
         while i + 1 < code.len() {
+            if code[i] == MEASURED || code[i] == AND {
+                let (t, a, b) = (code[i + 1], code[i + 2], code[i + 3]);
+                let uncompute = code[i] == MEASURED;
+                i += 4;
+                let (row, others) = Others::split(rows, (t >> 1) as usize);
+                let (ra, rb) = (others.get((a >> 1) as usize), others.get((b >> 1) as usize));
+                if uncompute {
+                    measured::<W>(row, ra, rb, flip(t), flip(a), flip(b), bad);
+                } else {
+                    temporary::<W>(row, ra, rb, flip(t), flip(a), flip(b), bad);
+                }
+                continue;
+            }
             let n = code[i] as usize;
             let target = code[i + 1] as usize;
             let controls = &code[i + 2..i + 2 + n];
@@ -546,6 +688,92 @@ mod tests {
                 );
             }
         }
+    }
+
+    // A measured uncompute, per state: it fails where its target differs from
+    // the AND of its two literals, and leaves the target at 0 (the meaning of
+    // the gadget of Jones, PRA 87, 022328, 2013, Fig. 3, read classically).
+    #[test]
+    fn measured_uncomputes_and_temporary_ands_flag_exactly_the_states_they_do_not_fit() {
+        let mut rng = Mix(7);
+        for &d in &Dispatch::available() {
+            for width in 3..=12usize {
+                let count = 1 + rng.below(40);
+                let mut gates = random_gates(&mut rng, width, count);
+                // Measured uncomputes at random places, with random polarities.
+                // 0: a flip, 1: a measured uncompute, 2: a temporary AND.
+                let mut is_measured = vec![0u8; gates.len()];
+                for _ in 0..1 + rng.below(6) {
+                    let k = rng.below(gates.len());
+                    let t = rng.below(width) as u32;
+                    let others: Vec<u32> = (0..width as u32).filter(|&l| l != t).collect();
+                    let a = others[rng.below(others.len())];
+                    let rest: Vec<u32> = others.iter().copied().filter(|&l| l != a).collect();
+                    let b = rest[rng.below(rest.len())];
+                    let lit = |line, r: u64| Literal {
+                        line,
+                        positive: r & 1 == 0,
+                    };
+                    gates[k] = (t, vec![lit(a, rng.next()), lit(b, rng.next())]);
+                    is_measured[k] = 1 + (rng.next() & 1) as u8;
+                }
+                let mut p = GateProgram::new(width, d).unwrap();
+                for (k, (t, cs)) in gates.iter().enumerate() {
+                    match is_measured[k] {
+                        1 => p.push_measured(*t, cs).unwrap(),
+                        2 => p.push_and(*t, cs).unwrap(),
+                        _ => p.push(*t, cs).unwrap(),
+                    }
+                }
+                let mut rows = vec![[0u64; 4]; width];
+                for row in rows.iter_mut() {
+                    for v in row.iter_mut() {
+                        *v = rng.next();
+                    }
+                }
+                let before = rows.clone();
+                assert_eq!(
+                    p.run_block::<4>(&mut rows.clone()),
+                    Err(KernelError::Unchecked)
+                );
+                let mut bad = [0u64; 4];
+                p.run_block_checked::<4>(&mut rows, &mut bad).unwrap();
+                for s in 0..256 {
+                    let (w, b) = (s / 64, s % 64);
+                    let mut v: Vec<bool> = before.iter().map(|r| (r[w] >> b) & 1 == 1).collect();
+                    let mut failed = false;
+                    for (k, (t, cs)) in gates.iter().enumerate() {
+                        let fire = cs.iter().all(|c| v[c.line as usize] == c.positive);
+                        if is_measured[k] == 1 {
+                            failed |= v[*t as usize] != fire;
+                            v[*t as usize] = false;
+                        } else if is_measured[k] == 2 {
+                            failed |= v[*t as usize];
+                            v[*t as usize] = fire;
+                        } else if fire {
+                            v[*t as usize] = !v[*t as usize];
+                        }
+                    }
+                    assert_eq!((bad[w] >> b) & 1 == 1, failed, "width {width} state {s}");
+                    for (l, row) in rows.iter().enumerate() {
+                        assert_eq!(
+                            (row[w] >> b) & 1 == 1,
+                            v[l],
+                            "width {width} state {s} line {l}"
+                        );
+                    }
+                }
+            }
+        }
+        let mut p = GateProgram::new(3, Dispatch::best()).unwrap();
+        assert!(matches!(
+            p.push_measured(2, &[Literal::pos(0)]),
+            Err(KernelError::MeasuredShape { controls: 1, .. })
+        ));
+        assert!(matches!(
+            p.push_measured(2, &[Literal::pos(0), Literal::pos(2)]),
+            Err(KernelError::ControlOnTarget { .. })
+        ));
     }
 
     #[test]

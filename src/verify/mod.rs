@@ -33,7 +33,7 @@ pub use shard::{
 };
 pub use verdict::{Counterexample, RegisterValue, Verdict};
 
-use crate::circuit::Circuit;
+use crate::circuit::{Circuit, Gate, Kind};
 use crate::limit::Limit;
 use crate::progress::Progress;
 use crate::spec::Spec;
@@ -226,7 +226,25 @@ pub fn verify_inverse_with_progress(
     progress: &dyn Progress,
 ) -> Result<Verdict, VerifyError> {
     let mut backwards = circuit.without_gates();
-    backwards.set_gates(circuit.gates().iter().rev().cloned().collect());
+    // Backwards, a measured uncompute is the temporary AND it undoes and a
+    // temporary AND the uncompute of the AND it made (each requires what the
+    // other ensures).
+    backwards.set_gates(
+        circuit
+            .gates()
+            .iter()
+            .rev()
+            .map(|g| {
+                let c = g.controls();
+                match g.kind() {
+                    Kind::Measured => Gate::temporary_and(c[0], c[1], g.target()),
+                    Kind::And => Gate::measured(c[0], c[1], g.target()),
+                    Kind::Flip => Some(g.clone()),
+                }
+                .expect("the gate's lines are distinct")
+            })
+            .collect(),
+    );
     let mut v = verify_with_progress(&backwards, spec, opts, progress)?;
     if let Verdict::Refuted { counterexample } = &mut v {
         if counterexample.state.is_some() {

@@ -172,8 +172,16 @@ impl<'a> Cnf<'a> {
         z
     }
     /// The final literal of every line of `c`: `lines[k]` starts as `vars[k]`,
-    /// every other line at 0, and each gate is `t' = t XOR AND(controls)`.
-    fn circuit(&mut self, c: &Circuit, lines: &[usize], vars: &[i32]) -> Vec<i32> {
+    /// every other line at 0, and each gate is `t' = t XOR AND(controls)`; a
+    /// measured uncompute is `t' = 0`, and the literal "its target differs
+    /// from the AND of its controls" goes into `unheld`.
+    fn circuit(
+        &mut self,
+        c: &Circuit,
+        lines: &[usize],
+        vars: &[i32],
+        unheld: &mut Vec<i32>,
+    ) -> Vec<i32> {
         let mut line: Vec<i32> = vec![-self.truth; c.width()];
         for (&l, &v) in lines.iter().zip(vars) {
             line[l] = v;
@@ -192,7 +200,16 @@ impl<'a> Cnf<'a> {
                 .collect();
             let fire = self.and(&controls);
             let t = g.target().index();
-            line[t] = self.xor(line[t], fire);
+            let next = self.xor(line[t], fire);
+            if g.is_measured() {
+                unheld.push(next);
+                line[t] = -self.truth;
+            } else if g.is_temporary_and() {
+                unheld.push(line[t]);
+                line[t] = fire;
+            } else {
+                line[t] = next;
+            }
         }
         line
     }
@@ -511,7 +528,8 @@ pub fn sat_equivalence(
     let mut cnf = Cnf::new(budget, stop);
     let free: Vec<i32> = binding.free.iter().map(|_| cnf.var()).collect();
     let (want, domain) = expected(&mut cnf, spec, &free)?;
-    let line = cnf.circuit(circuit, &binding.free, &free);
+    let mut unheld = Vec::new();
+    let line = cnf.circuit(circuit, &binding.free, &free, &mut unheld);
     let mut diffs: Vec<i32> = binding
         .free
         .iter()
@@ -519,6 +537,7 @@ pub fn sat_equivalence(
         .map(|(&l, &e)| cnf.xor(line[l], e))
         .collect();
     diffs.extend(binding.ancillae.iter().map(|&a| line[a]));
+    diffs.extend(unheld);
     // Sweep first: for structured circuits every difference is usually
     // proven 0 signal by signal, with no global solve at all.
     let started = std::time::Instant::now();
@@ -552,20 +571,45 @@ pub fn sat_equivalence(
 /// Simulates the circuit on the solver's input and checks, with plain bit
 /// arithmetic, that it really disagrees with the spec.
 /// Runs `c` on one basis state, line by line: `lines[k]` starts at `input[k]`,
-/// every other line at 0. Returns (lines before, lines after).
-fn simulate_bits(c: &Circuit, lines: &[usize], input: &[bool]) -> (Vec<bool>, Vec<bool>) {
+/// every other line at 0. Returns (lines before, lines after, the first
+/// measured uncompute whose target did not hold its AND, described).
+fn simulate_bits(
+    c: &Circuit,
+    lines: &[usize],
+    input: &[bool],
+) -> (Vec<bool>, Vec<bool>, Option<String>) {
     let mut v = vec![false; c.width()];
     for (&l, &x) in lines.iter().zip(input) {
         v[l] = x;
     }
     let before = v.clone();
-    for g in c.gates() {
-        if g.controls().iter().all(|x| v[x.line.index()] == x.positive) {
-            let t = g.target().index();
+    let mut unheld = None;
+    for (k, g) in c.gates().iter().enumerate() {
+        let fire = g.controls().iter().all(|x| v[x.line.index()] == x.positive);
+        let t = g.target().index();
+        if g.is_measured() {
+            if v[t] != fire && unheld.is_none() {
+                let info = &c.lines()[t];
+                unheld = Some(format!(
+                    "gate {k}, a measured uncompute, finds {}[{}] = {} but the AND of its controls is {}: the ancilla does not hold the AND it uncomputes",
+                    info.register, info.index, v[t] as u8, fire as u8
+                ));
+            }
+            v[t] = false;
+        } else if g.is_temporary_and() {
+            if v[t] && unheld.is_none() {
+                let info = &c.lines()[t];
+                unheld = Some(format!(
+                    "gate {k}, a temporary AND, finds {}[{}] = 1: its target must be 0",
+                    info.register, info.index
+                ));
+            }
+            v[t] = fire;
+        } else if fire {
             v[t] = !v[t];
         }
     }
-    (before, v)
+    (before, v, unheld)
 }
 
 fn confirm(
@@ -574,7 +618,7 @@ fn confirm(
     b: &Binding,
     input: &[bool],
 ) -> Result<SatOutcome, SatError> {
-    let (before, v) = simulate_bits(circuit, &b.free, input);
+    let (before, v, unheld) = simulate_bits(circuit, &b.free, input);
     let free_in: Vec<bool> = b.free.iter().map(|&l| before[l]).collect();
     let want = reference_bits(spec, &free_in);
     let mut want_lines = vec![false; circuit.width()];
@@ -592,8 +636,8 @@ fn confirm(
             })
             .collect()
     };
-    let mut problem = None;
-    if let Some(want) = want {
+    let mut problem = unheld;
+    if let Some(want) = want.filter(|_| problem.is_none()) {
         for (k, &l) in b.free.iter().enumerate() {
             if v[l] != want[k] {
                 let info = &circuit.lines()[l];
@@ -828,20 +872,22 @@ pub fn circuits_equivalent(
         .collect();
     let mut cnf = Cnf::new(budget, &());
     let free: Vec<i32> = free_a.iter().map(|_| cnf.var()).collect();
-    let out_a = cnf.circuit(a, &free_a, &free);
-    let out_b = cnf.circuit(b, &free_b, &free);
+    let mut unheld = Vec::new();
+    let out_a = cnf.circuit(a, &free_a, &free, &mut unheld);
+    let out_b = cnf.circuit(b, &free_b, &free, &mut unheld);
     let mut diffs: Vec<i32> = free_a
         .iter()
         .zip(&free_b)
         .map(|(&la, &lb)| cnf.xor(out_a[la], out_b[lb]))
         .collect();
     diffs.extend(a.register(ANCILLAE).iter().map(|l| out_a[l.index()]));
+    diffs.extend(unheld);
     match cnf.find(&diffs, &[], &free) {
         None => Ok(SatOutcome::Timeout),
         Some(None) => Ok(SatOutcome::Equivalent),
         Some(Some(input)) => {
-            let (before, va) = simulate_bits(a, &free_a, &input);
-            let (_, vb) = simulate_bits(b, &free_b, &input);
+            let (before, va, unheld_a) = simulate_bits(a, &free_a, &input);
+            let (_, vb, unheld_b) = simulate_bits(b, &free_b, &input);
             let show = |c: &Circuit, vals: &[bool], with_anc: bool| -> Vec<RegisterValue> {
                 c.registers()
                     .into_iter()
@@ -857,15 +903,19 @@ pub fn circuits_equivalent(
                 .iter()
                 .zip(&free_b)
                 .find(|(&la, &lb)| va[la] != vb[lb]);
-            let problem = match differing {
-                Some((&la, _)) => {
+            let unheld = unheld_a
+                .map(|u| format!("in the first circuit, {u}"))
+                .or(unheld_b.map(|u| format!("in the second circuit, {u}")));
+            let problem = match (unheld, differing) {
+                (Some(u), _) => u,
+                (None, Some((&la, _))) => {
                     let info = &a.lines()[la];
                     format!(
                         "{}[{}] differs between the circuits",
                         info.register, info.index
                     )
                 }
-                None => match a.register(ANCILLAE).iter().find(|l| va[l.index()]) {
+                (None, None) => match a.register(ANCILLAE).iter().find(|l| va[l.index()]) {
                     Some(l) => format!(
                         "anc[{}] is 1: ancilla is not returned to 0",
                         a.lines()[l.index()].index

@@ -274,10 +274,13 @@ pub fn repo() -> std::path::PathBuf {
 }
 
 /// The fields of the cost report in JSON (docs/json.md).
-pub const COST_FIELDS: [&str; 8] = [
+pub const COST_FIELDS: [&str; 11] = [
     "qubits",
     "mct",
     "toffoli",
+    "temporary_and",
+    "measured",
+    "toffoli_equivalent",
     "cnot",
     "not",
     "depth",
