@@ -234,7 +234,7 @@ fn bennett_on(
         p.needed.iter().map(|&v| vec![v]).collect()
     } else {
         let pebbles = budget.saturating_sub(n + m);
-        let (schedule, note) = schedule_within(&net, &p, pebbles, limits).map_err(|e| match e {
+        let (schedule, note) = schedule_within(net, &p, pebbles, limits).map_err(|e| match e {
             Unscheduled::Budget(needed) => SynthError::Budget {
                 budget,
                 needed: n + m + needed,
