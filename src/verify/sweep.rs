@@ -43,6 +43,8 @@ pub(super) struct Merged {
     repr: Vec<i32>,
     /// Every variable's value on the random patterns.
     words: Vec<[u64; WORDS]>,
+    /// Whether the sweep ran to the end (else `words` is partly unset).
+    complete: bool,
 }
 
 impl Merged {
@@ -59,6 +61,9 @@ impl Merged {
     /// A random pattern on which some literal of `any` is 1 and every one of
     /// `all` is 1, as the values of `vars` on it.
     pub(super) fn witness(&self, any: &[i32], all: &[i32], vars: &[i32]) -> Option<Vec<bool>> {
+        if !self.complete {
+            return None;
+        }
         let w = &self.words;
         let holds = |l: i32, p: usize| (lit_words(w, l)[p / 64] >> (p % 64)) & 1 == 1;
         let p = (0..64 * WORDS)
@@ -103,8 +108,11 @@ pub(super) fn sweep(defs: &[Def], truth: i32, stop: &mut dyn FnMut() -> bool) ->
     // Signature (normalized so that the first pattern is 0) -> the literal
     // of the earliest variable with it, in the same normalization.
     let mut seen: HashMap<[u64; WORDS], i32> = HashMap::new();
+    let mut complete = true;
     for v in 1..n {
-        if v % 1024 == 0 && stop() {
+        // Asked first thing too, so a zero budget does no work.
+        if v % 1024 == 1 && stop() {
+            complete = false;
             break;
         }
         words[v] = if v as i32 == truth {
@@ -136,6 +144,7 @@ pub(super) fn sweep(defs: &[Def], truth: i32, stop: &mut dyn FnMut() -> bool) ->
                 let m = Merged {
                     repr,
                     words: Vec::new(),
+                    complete: false,
                 };
                 let target = m.resolve(earlier);
                 let proven = equal_on_cut(defs, &m, truth, lit, target);
@@ -148,7 +157,11 @@ pub(super) fn sweep(defs: &[Def], truth: i32, stop: &mut dyn FnMut() -> bool) ->
             }
         }
     }
-    Merged { repr, words }
+    Merged {
+        repr,
+        words,
+        complete,
+    }
 }
 
 /// A node's kind and its operands as representative literals.
@@ -340,5 +353,15 @@ mod tests {
         let m = sweep(&d, 1, &mut || false);
         assert_eq!(m.resolve(6), 2);
         assert_eq!(m.resolve(7), -1);
+    }
+
+    #[test]
+    fn a_sweep_stopped_at_once_proves_nothing_and_offers_no_witness() {
+        let mut d = inputs();
+        d.push(Def::Xor(2, 3));
+        d.push(Def::Xor(5, 3));
+        let m = sweep(&d, 1, &mut || true);
+        assert_eq!(m.equalities().count(), 0);
+        assert_eq!(m.witness(&[6], &[], &[2, 3]), None);
     }
 }
