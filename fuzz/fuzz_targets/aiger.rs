@@ -2,7 +2,7 @@
 #![no_main]
 
 use libfuzzer_sys::fuzz_target;
-use oraculum::{read_aiger, to_network, ReadLimits};
+use oraculum::netlist::{read_aiger, to_network, ReadLimits};
 
 fuzz_target!(|data: &[u8]| {
     let limits = ReadLimits { max_nodes: 20_000, max_fanins: 80_000, max_inputs: 1_000 };

@@ -2,7 +2,7 @@
 #![no_main]
 
 use libfuzzer_sys::fuzz_target;
-use oraculum::{read_cnf, to_network, ReadLimits};
+use oraculum::netlist::{read_cnf, to_network, ReadLimits};
 
 fuzz_target!(|data: &[u8]| {
     let Ok(text) = std::str::from_utf8(data) else { return };
