@@ -40,7 +40,10 @@ fn main() {
         let t = Instant::now();
         let curve = tradeoff(&s, &opts);
         let secs = t.elapsed().as_secs_f64();
-        for o in &curve {
+        for note in &curve.notes {
+            println!("| {name}: {note} | | | | |");
+        }
+        for o in &curve.points {
             println!(
                 "| {name} | {} | {} | {} | {} |",
                 o.cost.qubits,
@@ -49,7 +52,10 @@ fn main() {
                 o.verification.is_proven()
             );
         }
-        println!("| {name}: {} budgets in {secs:.2} s | | | | |", curve.len());
+        println!(
+            "| {name}: {} points in {secs:.2} s | | | | |",
+            curve.points.len()
+        );
     }
     println!();
     for (name, text) in &specs {

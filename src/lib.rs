@@ -51,7 +51,7 @@ pub use lower::lower;
 pub use pipeline::{
     build, build_with_progress, compare, invert, BuildError, BuildOptions, Outcome, Verification,
 };
-pub use progress::{Event, Progress};
+pub use progress::{Event, Progress, Task};
 pub use source::{LocatedError, Location};
 pub use spec::{parse_spec, ArithOp, ArithSpec, FunctionSpec, OracleForm, Spec, SpecBody};
 pub use synth::{Method, SynthError, SynthLimits};

@@ -894,7 +894,7 @@ fn esop_limit_is_checked_before_its_cubes_are_built() {
         dag: Dag::default(),
     };
     let mut work = EsopWork::default();
-    match esop_counted(&f, &SynthLimits::default(), &mut work) {
+    match esop_counted(&f, &SynthLimits::default(), &mut work, &()) {
         Err(SynthError::Limit { limit, value, .. }) => {
             assert_eq!(limit, 2_000_000);
             assert!(value > limit, "{value}");

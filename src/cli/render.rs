@@ -8,6 +8,7 @@ use oraculum::source::{ErrorKind, SourceError};
 use oraculum::{BuildError, Event, Limit, Progress, Stop, SynthError, VerifyError};
 use std::io::IsTerminal;
 use std::sync::Mutex;
+use std::time::{Duration, Instant};
 
 /// A located error as a report: the message, the file, line and column, the
 /// line itself with its span marked, and the hint. Colour only on a terminal.
@@ -121,46 +122,77 @@ pub fn stop_hint(stop: &Stop) -> String {
     }
 }
 
-/// Progress bars on standard error, drawn only on a terminal and never with `--json`.
+/// Progress bars on standard error, drawn only on a terminal and never with
+/// `--json`. A stage gets a bar only once it has run for [`Bars::DELAY`], so
+/// short work draws nothing.
 pub struct Bars {
     show: bool,
-    bar: Mutex<Option<(String, ProgressBar)>>,
+    bar: Mutex<Slot>,
+}
+
+/// The stage being shown: its label, when it began, and its bar once drawn.
+#[derive(Default)]
+struct Slot {
+    label: String,
+    since: Option<Instant>,
+    bar: Option<ProgressBar>,
 }
 
 impl Bars {
+    /// How long a stage runs before its bar appears.
+    const DELAY: Duration = Duration::from_millis(700);
+
     pub fn new(json: bool) -> Self {
         Bars {
             show: !json && std::io::stderr().is_terminal(),
-            bar: Mutex::new(None),
+            bar: Mutex::new(Slot::default()),
         }
     }
 
     fn set(&self, label: String, template: &str, done: u64, total: u64) {
         let mut slot = self.bar.lock().unwrap_or_else(|e| e.into_inner());
-        if slot.as_ref().is_none_or(|(l, _)| *l != label) {
-            if let Some((_, old)) = slot.take() {
+        if slot.since.is_none() || slot.label != label {
+            if let Some(old) = slot.bar.take() {
                 old.finish_and_clear();
             }
-            let b = ProgressBar::new(total);
+            *slot = Slot {
+                label: label.clone(),
+                since: Some(Instant::now()),
+                bar: None,
+            };
+        }
+        if total > 0 && done >= total {
+            if let Some(b) = slot.bar.take() {
+                b.finish_and_clear();
+            }
+            slot.since = None;
+            return;
+        }
+        if slot.bar.is_none() && slot.since.is_some_and(|t| t.elapsed() >= Self::DELAY) {
+            let b = if total == 0 {
+                let b = ProgressBar::new_spinner();
+                b.enable_steady_tick(Duration::from_millis(120));
+                b
+            } else {
+                ProgressBar::new(total)
+            };
             if let Ok(style) = ProgressStyle::with_template(template) {
                 b.set_style(style);
             }
-            b.set_message(label.clone());
-            *slot = Some((label, b));
+            b.set_message(label);
+            slot.bar = Some(b);
         }
-        if let Some((_, b)) = slot.as_ref() {
+        if let Some(b) = slot.bar.as_ref() {
             b.set_position(done.max(b.position()));
-            if done >= total {
-                b.finish_and_clear();
-            }
         }
     }
 
     fn clear(&self) {
         let mut slot = self.bar.lock().unwrap_or_else(|e| e.into_inner());
-        if let Some((_, old)) = slot.take() {
+        if let Some(old) = slot.bar.take() {
             old.finish_and_clear();
         }
+        slot.since = None;
     }
 }
 
@@ -191,6 +223,17 @@ impl Progress for Bars {
                 1000,
             ),
             Event::SearchDone => self.clear(),
+            Event::Stage {
+                task,
+                done,
+                total: 0,
+            } => self.set(task.describe(), "{spinner} {msg}, {elapsed}", done, 0),
+            Event::Stage { task, done, total } => self.set(
+                task.describe(),
+                "{msg} {bar:40} {pos} of {len}, {eta} left",
+                done,
+                total,
+            ),
         }
     }
 }

@@ -3,7 +3,7 @@
 
 use crate::circuit::Cost;
 use crate::exact::Level;
-use crate::pipeline::{BuildError, Outcome, Report};
+use crate::pipeline::{BuildError, Curve, Outcome, Report};
 use crate::synth::Method;
 use crate::verify::Verdict;
 use serde::Serialize;
@@ -83,9 +83,9 @@ pub struct CompareReport<'a> {
     pub best: Option<&'static str>,
     /// Qubits against Toffolis, bennett with a qubit budget.
     pub tradeoff: Vec<TradeoffPoint>,
-    /// Why there is no trade-off curve, when a limit skipped it.
-    #[serde(skip_serializing_if = "Option::is_none")]
-    pub tradeoff_note: Option<String>,
+    /// What cut the trade-off curve short or coarse (a limit, the SAT share).
+    #[serde(skip_serializing_if = "Vec::is_empty")]
+    pub tradeoff_notes: Vec<String>,
 }
 
 impl<'a> CompareReport<'a> {
@@ -95,7 +95,7 @@ impl<'a> CompareReport<'a> {
         name: Option<&'a str>,
         rows: &'a [(Method, Result<Outcome, BuildError>)],
         best: Option<Method>,
-        curve: &[Outcome],
+        curve: &Curve,
     ) -> Self {
         CompareReport {
             spec,
@@ -112,6 +112,7 @@ impl<'a> CompareReport<'a> {
                 .collect(),
             best: best.map(Method::name),
             tradeoff: curve
+                .points
                 .iter()
                 .map(|o| TradeoffPoint {
                     qubits: o.cost.qubits,
@@ -119,7 +120,7 @@ impl<'a> CompareReport<'a> {
                     verified: o.verification.is_proven(),
                 })
                 .collect(),
-            tradeoff_note: None,
+            tradeoff_notes: curve.notes.clone(),
         }
     }
 }

@@ -5,9 +5,9 @@
 use super::build::build_one;
 use super::grover::grover_facts;
 use super::{BuildError, BuildOptions, Outcome, Verification};
-use crate::progress::Progress;
+use crate::progress::{Event, Progress, Task};
 use crate::spec::{Spec, SpecBody};
-use crate::synth::{network_of, Method, SynthError, EXACT_ESOP_MAX_INPUTS};
+use crate::synth::{network_of, Method, SynthError, EXACT_ESOP_MAX_INPUTS, PEBBLE_SAT_MAX_NODES};
 use crate::verify::{Verdict, VerifyError};
 
 /// Every method that applies to `spec`, cheapest first; `thorough` adds the
@@ -99,19 +99,33 @@ pub fn compare_with_progress(
     progress: &dyn Progress,
 ) -> Vec<(Method, Result<Outcome, BuildError>)> {
     let grover = grover_facts(spec, max_states(opts), progress);
-    candidates(spec, true)
+    let methods = candidates(spec, true);
+    let total = methods.len() as u64;
+    let rows = methods
         .into_iter()
-        .map(|m| {
+        .enumerate()
+        .map(|(i, m)| {
             if progress.cancelled() {
                 return (m, Err(BuildError::Synth(SynthError::Cancelled)));
             }
+            progress.event(Event::Stage {
+                task: Task::Compare(m.name()),
+                done: i as u64,
+                total,
+            });
             let r = build_one(spec, m, opts, progress).and_then(|mut o| {
                 o.grover = grover.clone()?;
                 Ok(o)
             });
             (m, r)
         })
-        .collect()
+        .collect();
+    progress.event(Event::Stage {
+        task: Task::Compare(""),
+        done: total,
+        total,
+    });
+    rows
 }
 
 /// The method whose verified circuit ranks first among `rows`, as `auto`
@@ -125,42 +139,129 @@ pub fn best_of(rows: &[(Method, Result<Outcome, BuildError>)]) -> Option<Method>
 }
 
 /// Most network nodes for which [`tradeoff`] schedules.
-pub const TRADEOFF_MAX_NODES: usize = 200;
+pub const TRADEOFF_MAX_NODES: usize = 2000;
+
+/// Most qubit budgets [`tradeoff`] builds below plain Bennett; past that it
+/// steps several qubits at a time.
+pub const TRADEOFF_MAX_POINTS: usize = 128;
+
+/// Bennett's qubit/Toffoli trade-off: the points kept, and what cut the
+/// curve short or coarse (a limit, or the SAT share running out).
+#[derive(Clone, Debug, Default)]
+pub struct Curve {
+    /// From the most qubits to the fewest; more qubits always buy fewer Toffolis.
+    pub points: Vec<Outcome>,
+    /// What was cut short, and why.
+    pub notes: Vec<String>,
+}
+
+/// Bennett's qubit/Toffoli trade-off for a function spec: see [`tradeoff_with_progress`].
+pub fn tradeoff(spec: &Spec, opts: &BuildOptions) -> Curve {
+    tradeoff_with_progress(spec, opts, &())
+}
 
 /// Bennett's qubit/Toffoli trade-off for a function spec: plain Bennett, then
-/// one qubit fewer at a time until no schedule fits (or a network too large to
-/// schedule, past [`TRADEOFF_MAX_NODES`] nodes, stops it: [`tradeoff_note`]
-/// says so). Each point is verified as `opts` says. Only the points no
-/// smaller point beats are kept: along the curve, more qubits always buy
-/// fewer Toffolis (a circuit within fewer qubits fits a larger budget too).
-pub fn tradeoff(spec: &Spec, opts: &BuildOptions) -> Vec<Outcome> {
+/// fewer qubits a step at a time (one qubit, or more when that would take
+/// more than [`TRADEOFF_MAX_POINTS`] builds) until no schedule fits. Networks
+/// past [`TRADEOFF_MAX_NODES`] nodes get no curve. The SAT pebbling of all the
+/// points together gets `opts.limits.exact_seconds` (each point at most a
+/// quarter of it); once spent, the points are checkpoint schedules, and a
+/// note says from which budget. Each point is verified as `opts` says. Only
+/// the points no smaller point beats are kept: along the curve, more qubits
+/// always buy fewer Toffolis (a circuit within fewer qubits fits a larger
+/// budget too).
+pub fn tradeoff_with_progress(spec: &Spec, opts: &BuildOptions, progress: &dyn Progress) -> Curve {
+    let mut curve = Curve::default();
     let SpecBody::Function(f) = &spec.body else {
-        return Vec::new();
+        return curve;
     };
     let Ok(net) = network_of(f) else {
-        return Vec::new();
+        return curve;
     };
     if net.gates() > TRADEOFF_MAX_NODES {
-        return Vec::new();
+        curve.notes.push(format!(
+            "the qubit trade-off curve is skipped: the network has {} nodes, more than {TRADEOFF_MAX_NODES}",
+            net.gates()
+        ));
+        return curve;
     }
-    let mut points = Vec::new();
     let mut o = *opts;
     o.limits.max_qubits = None;
-    let Ok(plain) = build_one(spec, Method::Bennett, &o, &()) else {
-        return points;
+    let plain = match build_one(spec, Method::Bennett, &o, progress) {
+        Ok(p) => p,
+        Err(e) => {
+            curve
+                .notes
+                .push(format!("the qubit trade-off curve is skipped: {e}"));
+            return curve;
+        }
     };
-    let mut q = plain.cost.qubits;
-    points.push(plain);
-    while q > 1 {
-        q -= 1;
+    // Below `floor` qubits only the registers would be left.
+    let floor = f.inputs.len() + f.outputs.len();
+    let top = plain.cost.qubits;
+    let span = top.saturating_sub(floor);
+    let step = span.div_ceil(TRADEOFF_MAX_POINTS).max(1);
+    if step > 1 {
+        curve.notes.push(format!(
+            "the curve steps {step} qubits at a time (at most {TRADEOFF_MAX_POINTS} budgets)"
+        ));
+    }
+    // Synthesis time counts against the SAT share only where SAT pebbling runs.
+    let sat = net.gates() <= PEBBLE_SAT_MAX_NODES;
+    let share = opts.limits.exact_seconds.max(0.0);
+    let mut left = share;
+    let mut spent_at = None;
+    let mut points = vec![plain];
+    let mut q = top;
+    while q > floor + 1 {
+        if progress.cancelled() {
+            curve.notes.push("the curve was cancelled".into());
+            break;
+        }
+        progress.event(Event::Stage {
+            task: Task::Curve,
+            done: (top - q) as u64,
+            total: span as u64,
+        });
+        q = q.saturating_sub(step).max(floor + 1);
         o.limits.max_qubits = Some(q);
-        match build_one(spec, Method::Bennett, &o, &()) {
+        o.limits.exact_seconds = left.clamp(0.0, share / 4.0);
+        if sat && left <= 0.0 && spent_at.is_none() {
+            spent_at = Some(q);
+        }
+        match build_one(spec, Method::Bennett, &o, progress) {
             Ok(p) => {
+                if sat {
+                    left -= p.timings.synth;
+                }
                 q = p.cost.qubits;
                 points.push(p);
             }
-            Err(_) => break,
+            Err(BuildError::Synth(SynthError::Budget { .. })) => break,
+            // SAT had no time left and no checkpoint schedule fits.
+            Err(BuildError::Synth(SynthError::OutOfTime { .. })) if spent_at.is_some() => {
+                curve.notes.push(format!(
+                    "the curve stops at {q} qubits: no checkpoint schedule fits and the SAT share is spent"
+                ));
+                break;
+            }
+            Err(e) => {
+                curve
+                    .notes
+                    .push(format!("the curve stops at {q} qubits: {e}"));
+                break;
+            }
         }
+    }
+    progress.event(Event::Stage {
+        task: Task::Curve,
+        done: span as u64,
+        total: span as u64,
+    });
+    if let Some(q) = spent_at {
+        curve.notes.push(format!(
+            "SAT pebbling spent the curve's {share} s (--exact-seconds) before {q} qubits: from there on the points are checkpoint schedules"
+        ));
     }
     // From the fewest qubits up, keep a point only when it beats every
     // point below it.
@@ -171,21 +272,8 @@ pub fn tradeoff(spec: &Spec, opts: &BuildOptions) -> Vec<Outcome> {
         }
     }
     front.reverse();
-    front
-}
-
-/// Why [`tradeoff`] gives no curve for `spec`, when the reason is a limit.
-pub fn tradeoff_note(spec: &Spec) -> Option<String> {
-    let SpecBody::Function(f) = &spec.body else {
-        return None;
-    };
-    let net = network_of(f).ok()?;
-    (net.gates() > TRADEOFF_MAX_NODES).then(|| {
-        format!(
-            "the qubit trade-off curve is skipped: the network has {} nodes, more than {TRADEOFF_MAX_NODES}",
-            net.gates()
-        )
-    })
+    curve.points = front;
+    curve
 }
 
 /// The ranking of `auto` and `compare`: within the qubit budget, then

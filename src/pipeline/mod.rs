@@ -8,7 +8,7 @@ mod grover;
 pub use build::{build_one, invert, OPTIMIZE_MAX_GATES};
 pub use choose::{
     best_of, build, build_with_progress, candidates, compare, compare_with_progress, tradeoff,
-    tradeoff_note, TRADEOFF_MAX_NODES,
+    tradeoff_with_progress, Curve, TRADEOFF_MAX_NODES, TRADEOFF_MAX_POINTS,
 };
 pub use grover::{grover_facts, iterations, Fact, Grover};
 

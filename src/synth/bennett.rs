@@ -33,6 +33,7 @@ use super::pebble::{pebble, Pebbling};
 use super::{network_of, SynthError, SynthLimits, Synthesis};
 use crate::circuit::{Circuit, Control, Gate, Line};
 use crate::logic::{Lit, Network, Node};
+use crate::progress::{Event, Progress, Task};
 use crate::spec::FunctionSpec;
 use crate::xag::{minimize_ands, RewriteReport, Xag4Database};
 use std::collections::{BTreeMap, BTreeSet};
@@ -164,12 +165,23 @@ fn schedule_within(
     p: &Plan,
     pebbles: usize,
     limits: &SynthLimits,
+    progress: &dyn Progress,
 ) -> Result<(Vec<Vec<usize>>, &'static str), Unscheduled> {
     let is_and = |v: usize| matches!(net.nodes()[v], Node::And(..));
-    let (grid, smallest) = best_on_grid(p, pebbles, &is_and);
+    let (grid, smallest) = best_on_grid(p, pebbles, &is_and, progress);
     let sat = if p.needed.len() <= PEBBLE_SAT_MAX_NODES {
         let deadline = Instant::now() + Duration::from_secs_f64(limits.exact_seconds.max(0.0));
-        Some(pebble(p, pebbles, deadline, limits.max_clauses))
+        let stage = |done| {
+            progress.event(Event::Stage {
+                task: Task::PebblingBySat,
+                done,
+                total: done,
+            })
+        };
+        stage(0);
+        let found = pebble(p, pebbles, deadline, limits.max_clauses);
+        stage(1);
+        Some(found)
     } else {
         None
     };
@@ -195,8 +207,12 @@ fn schedule_within(
 
 /// Bennett's compute-copy-uncompute for `f`, with a pebbling schedule when
 /// `limits.max_qubits` asks for fewer qubits than plain Bennett uses.
-pub fn bennett(f: &FunctionSpec, limits: &SynthLimits) -> Result<Synthesis, SynthError> {
-    bennett_on(f, &network_of(f)?, limits, Vec::new())
+pub fn bennett(
+    f: &FunctionSpec,
+    limits: &SynthLimits,
+    progress: &dyn Progress,
+) -> Result<Synthesis, SynthError> {
+    bennett_on(f, &network_of(f)?, limits, Vec::new(), progress)
 }
 
 /// The network of `f` rewritten to fewer AND nodes (never more) by cut
@@ -208,13 +224,17 @@ pub fn xag_network(f: &FunctionSpec) -> Result<(Network, RewriteReport), SynthEr
 }
 
 /// [`bennett`] on the network of `f` rewritten by [`xag_network`].
-pub fn bennett_xag(f: &FunctionSpec, limits: &SynthLimits) -> Result<Synthesis, SynthError> {
+pub fn bennett_xag(
+    f: &FunctionSpec,
+    limits: &SynthLimits,
+    progress: &dyn Progress,
+) -> Result<Synthesis, SynthError> {
     let (net, r) = xag_network(f)?;
     let note = format!(
         "xag: {} AND nodes as written, {} after cut rewriting ({} rounds)",
         r.before, r.after, r.rounds
     );
-    bennett_on(f, &net, limits, vec![note])
+    bennett_on(f, &net, limits, vec![note], progress)
 }
 
 /// Bennett's compute-copy-uncompute of `net`, the network of `f`.
@@ -223,6 +243,7 @@ fn bennett_on(
     net: &Network,
     limits: &SynthLimits,
     mut notes: Vec<String>,
+    progress: &dyn Progress,
 ) -> Result<Synthesis, SynthError> {
     let p = plan(net);
     let n = f.inputs.len();
@@ -234,13 +255,14 @@ fn bennett_on(
         p.needed.iter().map(|&v| vec![v]).collect()
     } else {
         let pebbles = budget.saturating_sub(n + m);
-        let (schedule, note) = schedule_within(net, &p, pebbles, limits).map_err(|e| match e {
-            Unscheduled::Budget(needed) => SynthError::Budget {
-                budget,
-                needed: n + m + needed,
-            },
-            Unscheduled::Other(e) => e,
-        })?;
+        let (schedule, note) =
+            schedule_within(net, &p, pebbles, limits, progress).map_err(|e| match e {
+                Unscheduled::Budget(needed) => SynthError::Budget {
+                    budget,
+                    needed: n + m + needed,
+                },
+                Unscheduled::Other(e) => e,
+            })?;
         notes.push(format!(
             "bennett: scheduled within {budget} qubits ({pebbles} ancillae for {} nodes) {note}",
             p.needed.len()

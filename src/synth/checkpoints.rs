@@ -25,7 +25,8 @@
 //! soon as it would exceed the best schedule found so far.
 
 use super::bennett::Plan;
-use std::collections::HashMap;
+use crate::progress::{Event, Progress, Task};
+use std::collections::{HashMap, HashSet};
 
 /// A pebbling schedule: one node toggled per step.
 #[derive(Clone, Debug, PartialEq, Eq)]
@@ -41,21 +42,23 @@ pub(super) struct Schedule {
 /// The order of the needed nodes, each node's operands as positions in it, and
 /// the last position that reads each node (`usize::MAX` for an output leaf).
 struct Order {
+    /// The network node at each position.
+    nodes: Vec<usize>,
     operands: Vec<Vec<usize>>,
     last_use: Vec<usize>,
     is_and: Vec<bool>,
 }
 
 impl Order {
-    fn new(p: &Plan, is_and: &dyn Fn(usize) -> bool) -> Order {
+    /// The order `seq`, a topological order of `p.needed`.
+    fn new(p: &Plan, seq: &[usize], is_and: &dyn Fn(usize) -> bool) -> Order {
         let position: HashMap<usize, usize> =
-            p.needed.iter().enumerate().map(|(i, &v)| (v, i)).collect();
-        let operands: Vec<Vec<usize>> = p
-            .needed
+            seq.iter().enumerate().map(|(i, &v)| (v, i)).collect();
+        let operands: Vec<Vec<usize>> = seq
             .iter()
             .map(|v| p.operands[v].iter().map(|u| position[u]).collect())
             .collect();
-        let mut last_use = vec![0usize; p.needed.len()];
+        let mut last_use = vec![0usize; seq.len()];
         for (i, ops) in operands.iter().enumerate() {
             for &j in ops {
                 last_use[j] = last_use[j].max(i);
@@ -69,16 +72,65 @@ impl Order {
             }
         }
         Order {
+            nodes: seq.to_vec(),
             operands,
             last_use,
-            is_and: p.needed.iter().map(|&v| is_and(v)).collect(),
+            is_and: seq.iter().map(|&v| is_and(v)).collect(),
         }
+    }
+
+    /// The two orders the grid runs on: the network's own topological order,
+    /// and the depth-first post-order from the outputs, which computes each
+    /// operand just before its first reader (a tree of `n` nodes then has a
+    /// frontier of its depth, not of its width).
+    fn both(p: &Plan, is_and: &dyn Fn(usize) -> bool) -> [Order; 2] {
+        [
+            Order::new(p, &p.needed, is_and),
+            Order::new(p, &post_order(p), is_and),
+        ]
     }
 
     /// How many nodes of `[a, b)` are read at or after `end`.
     fn frontier(&self, a: usize, b: usize, end: usize) -> usize {
         self.last_use[a..b].iter().filter(|&&u| u >= end).count()
     }
+}
+
+/// The needed nodes in depth-first post-order from the output leaves,
+/// operands in their stored order (then any node no output reads, so the
+/// order is a permutation of `p.needed`); iterative, so any depth is safe.
+fn post_order(p: &Plan) -> Vec<usize> {
+    let mut done: HashSet<usize> = HashSet::with_capacity(p.needed.len());
+    let mut out = Vec::with_capacity(p.needed.len());
+    let mut stack: Vec<(usize, usize)> = Vec::new();
+    let roots = p
+        .copies
+        .iter()
+        .flat_map(|(l, _)| l.iter().copied())
+        .chain(p.needed.iter().copied());
+    for root in roots {
+        if !p.operands.contains_key(&root) || done.contains(&root) {
+            continue;
+        }
+        stack.push((root, 0));
+        while let Some(&mut (v, ref mut next)) = stack.last_mut() {
+            let ops = &p.operands[&v];
+            if let Some(&u) = ops.get(*next) {
+                *next += 1;
+                // Mark on entry so a node is pushed once.
+                if done.insert(u) {
+                    stack.push((u, 0));
+                }
+                continue;
+            }
+            stack.pop();
+            if v == root {
+                done.insert(v);
+            }
+            out.push(v);
+        }
+    }
+    out
 }
 
 /// Why a run stopped.
@@ -302,38 +354,56 @@ pub(super) fn best_on_grid(
     p: &Plan,
     k: usize,
     is_and: &dyn Fn(usize) -> bool,
+    progress: &dyn Progress,
 ) -> (Option<Schedule>, Option<usize>) {
-    let o = Order::new(p, is_and);
-    let n = o.operands.len();
+    let orders = Order::both(p, is_and);
+    let n = p.needed.len();
     let budgets = grid(n.max(1));
     let mut best: Option<Schedule> = None;
     // From the largest budget down: the first schedule found is usually the
     // cheapest, and a run that would cost more than the best so far stops
     // early.
-    for &g in budgets.iter().filter(|&&g| g <= k).rev() {
-        for split in SPLITS {
-            let cap = best.as_ref().map_or(usize::MAX, |b| b.toffolis);
-            let Some((moves, peak, toffolis)) = fitting(&o, g, cap, split) else {
-                continue;
-            };
-            let better = best
-                .as_ref()
-                .is_none_or(|b| (toffolis, peak) < (b.toffolis, b.peak));
-            if better {
-                best = Some(Schedule {
-                    moves: moves.iter().map(|&i| p.needed[i]).collect(),
-                    peak,
-                    toffolis,
-                });
+    let tried: Vec<usize> = budgets.iter().copied().filter(|&g| g <= k).rev().collect();
+    for (done, &g) in tried.iter().enumerate() {
+        progress.event(Event::Stage {
+            task: Task::Pebbling,
+            done: done as u64,
+            total: tried.len() as u64,
+        });
+        for o in &orders {
+            for split in SPLITS {
+                let cap = best.as_ref().map_or(usize::MAX, |b| b.toffolis);
+                let Some((moves, peak, toffolis)) = fitting(o, g, cap, split) else {
+                    continue;
+                };
+                let better = best
+                    .as_ref()
+                    .is_none_or(|b| (toffolis, peak) < (b.toffolis, b.peak));
+                if better {
+                    best = Some(Schedule {
+                        moves: moves.iter().map(|&i| o.nodes[i]).collect(),
+                        peak,
+                        toffolis,
+                    });
+                }
             }
         }
+    }
+    if !tried.is_empty() {
+        progress.event(Event::Stage {
+            task: Task::Pebbling,
+            done: tried.len() as u64,
+            total: tried.len() as u64,
+        });
     }
     let smallest = match &best {
         Some(_) => None,
         None => budgets.iter().copied().filter(|&g| g > k).find(|&g| {
-            SPLITS
-                .iter()
-                .any(|&s| fitting(&o, g, usize::MAX, s).is_some())
+            orders.iter().any(|o| {
+                SPLITS
+                    .iter()
+                    .any(|&s| fitting(o, g, usize::MAX, s).is_some())
+            })
         }),
     };
     (best, smallest)
@@ -343,6 +413,47 @@ pub(super) fn best_on_grid(
 mod tests {
     use super::*;
     use std::collections::BTreeMap;
+
+    /// `w` leaves listed first, then a chain of ANDs folding them in one by
+    /// one (node `w + i` reads node `w + i - 1` and leaf `i + 1`): the shape
+    /// of a CNF's clauses and their conjunction, in the order a reader
+    /// builds them.
+    fn leaves_then_fold(w: usize) -> Plan {
+        let mut operands = BTreeMap::new();
+        for i in 0..w {
+            operands.insert(i, vec![]);
+        }
+        operands.insert(w, vec![0, 1]);
+        for i in 1..w - 1 {
+            operands.insert(w + i, vec![w + i - 1, i + 1]);
+        }
+        let last = 2 * w - 2;
+        Plan {
+            copies: vec![(vec![last], false)],
+            needed: (0..=last).collect(),
+            operands,
+        }
+    }
+
+    #[test]
+    fn the_post_order_keeps_a_wide_fold_narrow() {
+        // In the order as built, every leaf is computed before the fold
+        // reads it, so the frontier is the whole width; the post-order
+        // computes each leaf just before its reader. Counted by hand: the
+        // fold's chain then needs pebbles for a chain of w - 1 nodes plus
+        // one leaf at a time.
+        let w = 40;
+        let p = leaves_then_fold(w);
+        let built = Order::new(&p, &p.needed, &|_| true);
+        let post = Order::new(&p, &post_order(&p), &|_| true);
+        assert!(run(&built, 20).is_none());
+        let moves = run(&post, 20).expect("the post-order fits 20 pebbles");
+        let (peak, _) = measure(&post, &moves).unwrap();
+        assert!(peak <= 20);
+        // And the grid, which runs both orders, finds it.
+        let (s, _) = best_on_grid(&p, 20, &|_| true, &());
+        assert!(s.is_some());
+    }
 
     /// A chain of `n` nodes, each reading the one before; the last is an output.
     fn chain(n: usize) -> Plan {
@@ -358,7 +469,7 @@ mod tests {
     #[test]
     fn a_budget_as_large_as_the_network_is_plain_bennett() {
         let p = chain(50);
-        let o = Order::new(&p, &|_| true);
+        let o = Order::new(&p, &p.needed, &|_| true);
         let moves = run(&o, 50).unwrap();
         assert_eq!(moves, (0..50).collect::<Vec<_>>());
     }
@@ -366,7 +477,7 @@ mod tests {
     #[test]
     fn schedules_fit_their_budget_and_keep_operands_held() {
         let p = chain(200);
-        let o = Order::new(&p, &|_| true);
+        let o = Order::new(&p, &p.needed, &|_| true);
         for split in SPLITS {
             for k in 1..=200 {
                 if let Some(moves) = run_capped(&o, k, usize::MAX, split) {
@@ -378,7 +489,7 @@ mod tests {
         }
         // One pebble cannot pass a chain of two: the first node must stay
         // held while the second is computed.
-        assert!(run(&Order::new(&chain(2), &|_| true), 1).is_none());
+        assert!(run(&Order::new(&chain(2), &chain(2).needed, &|_| true), 1).is_none());
     }
 
     #[test]
@@ -389,13 +500,15 @@ mod tests {
         // 2 log2(n) + 2 is its bound; 10,000 nodes pass 16 pebbles (measured)
         // where one pass of segments would need k(k + 1)/2 >= n, 141.
         for n in [100usize, 1000, 10_000] {
-            let o = Order::new(&chain(n), &|_| true);
+            let c = chain(n);
+            let o = Order::new(&c, &c.needed, &|_| true);
             let bound = 2 * (usize::BITS - n.leading_zeros()) as usize + 2;
             let moves = run(&o, bound).unwrap_or_else(|| panic!("chain {n} within {bound}"));
             let (peak, _) = measure(&o, &moves).unwrap();
             assert!(peak <= bound);
         }
-        assert!(run(&Order::new(&chain(10_000), &|_| true), 16).is_some());
+        let c = chain(10_000);
+        assert!(run(&Order::new(&c, &c.needed, &|_| true), 16).is_some());
     }
 
     /// A random network in topological order: each node reads up to two of
@@ -430,12 +543,12 @@ mod tests {
     fn random_networks_get_legal_schedules_far_below_their_size() {
         for seed in 1..=20u64 {
             let p = random_dag(400, seed);
-            let (s, smallest) = best_on_grid(&p, 160, &|_| true);
+            let (s, smallest) = best_on_grid(&p, 160, &|_| true, &());
             // Measured: every seed fits in about 64 of 400; 160 leaves room.
             let s =
                 s.unwrap_or_else(|| panic!("seed {seed}: none within 160, smallest {smallest:?}"));
             assert!(s.peak <= 160);
-            let o = Order::new(&p, &|_| true);
+            let o = Order::new(&p, &p.needed, &|_| true);
             let moves: Vec<usize> = s.moves.clone();
             assert_eq!(
                 measure(&o, &moves),
@@ -453,7 +566,7 @@ mod tests {
             let mut last = usize::MAX;
             let mut first = None;
             for k in 1..=300 {
-                let (s, smallest) = best_on_grid(&p, k, &|_| true);
+                let (s, smallest) = best_on_grid(&p, k, &|_| true, &());
                 match s {
                     Some(s) => {
                         assert!(s.peak <= k);

@@ -26,6 +26,7 @@ use super::exorlink::{exorlink_minimize, Term};
 use super::{reed_muller_coefficients, SynthError, SynthLimits};
 use crate::circuit::{Circuit, Control, Gate, Line};
 use crate::logic::{Cube, Esop, Literal, TruthTable, VAR_PATTERN};
+use crate::progress::{Event, Progress, Task};
 use crate::spec::FunctionSpec;
 use std::collections::HashMap;
 
@@ -36,15 +37,19 @@ pub const EXORLINK_MAX_TERMS: usize = 2000;
 pub const EXORLINK_WORK: u64 = 40_000_000;
 
 /// The ESOP heuristic for `f`, then its circuit.
-pub fn esop(f: &FunctionSpec, limits: &SynthLimits) -> Result<Circuit, SynthError> {
-    let e = esop_of(f, limits)?;
+pub fn esop(
+    f: &FunctionSpec,
+    limits: &SynthLimits,
+    progress: &dyn Progress,
+) -> Result<Circuit, SynthError> {
+    let e = esop_counted(f, limits, &mut EsopWork::default(), progress)?;
     check_terms(&e, limits)?;
     Ok(esop_circuit(f, &e))
 }
 
 /// The heuristic's ESOP for every output of `f`.
 pub fn esop_of(f: &FunctionSpec, limits: &SynthLimits) -> Result<Esop, SynthError> {
-    esop_counted(f, limits, &mut EsopWork::default())
+    esop_counted(f, limits, &mut EsopWork::default(), &())
 }
 
 /// What the heuristic built: cubes made, for checking that a refusal came
@@ -60,18 +65,32 @@ pub struct EsopWork {
 /// ESOP would pass the gate limit is refused first: sharing cubes between
 /// outputs never lowers the gate count (one gate per cube and output), and
 /// exorlink, the only pass that does, runs only on at most
-/// [`EXORLINK_MAX_TERMS`] terms.
+/// [`EXORLINK_MAX_TERMS`] terms. Each output's expansion and then its cubes
+/// are reported to `progress`.
 pub fn esop_counted(
     f: &FunctionSpec,
     limits: &SynthLimits,
     work: &mut EsopWork,
+    progress: &dyn Progress,
 ) -> Result<Esop, SynthError> {
     let n = f.inputs.len();
     super::check_table_inputs(n, limits)?;
     let m = f.outputs.len();
     let mut plans = Vec::with_capacity(m);
     let mut gates = 0usize;
+    let stage = |done: usize| {
+        // With no outputs there is no stage (a total of 0 means unknown).
+        if m == 0 {
+            return;
+        }
+        progress.event(Event::Stage {
+            task: Task::Esop,
+            done: done as u64,
+            total: 2 * m as u64,
+        })
+    };
     for j in 0..m {
+        stage(j);
         let t = f.table(j).expect("within the table limit");
         let plan = plan(&t);
         gates = gates.saturating_add(plan.size());
@@ -87,13 +106,16 @@ pub fn esop_counted(
     }
     let mut shared: HashMap<Cube, u64> = HashMap::new();
     for (j, (t, plan)) in plans.into_iter().enumerate() {
+        stage(m + j);
         let cubes = plan.cubes(&t);
         work.cubes += cubes.len() as u64;
         for c in cubes {
             *shared.entry(c).or_insert(0) ^= 1 << j;
         }
     }
-    Ok(finish(n, shared))
+    let esop = finish(n, shared);
+    stage(2 * m);
+    Ok(esop)
 }
 
 /// The expansion chosen for one output, before its cubes are made.

@@ -18,7 +18,7 @@ mod reed_muller;
 mod transform;
 
 pub use arith::{arith_lines, arithmetic, Registers};
-pub use bennett::{bennett, bennett_counts, bennett_xag, xag_network};
+pub use bennett::{bennett, bennett_counts, bennett_xag, xag_network, PEBBLE_SAT_MAX_NODES};
 pub use esop::{
     esop_circuit, esop_counted, esop_of, minimize_tables, EsopWork, EXORLINK_MAX_TERMS,
     EXORLINK_WORK,
@@ -233,7 +233,7 @@ pub fn synthesize(
 ) -> Result<Synthesis, SynthError> {
     match (&spec.body, method) {
         (SpecBody::Function(f), Method::ReedMuller) => Ok(reed_muller(f, limits)?.into()),
-        (SpecBody::Function(f), Method::Esop) => Ok(esop::esop(f, limits)?.into()),
+        (SpecBody::Function(f), Method::Esop) => Ok(esop::esop(f, limits, progress)?.into()),
         (SpecBody::Function(f), Method::EsopExact) => esop_exact::esop_exact_circuit(f, limits),
         (SpecBody::Function(f), Method::Hierarchical) => {
             let s = hierarchical(f, limits)?;
@@ -241,12 +241,12 @@ pub fn synthesize(
             Ok(s)
         }
         (SpecBody::Function(f), Method::Bennett) => {
-            let s = bennett(f, limits)?;
+            let s = bennett(f, limits, progress)?;
             check_gates(&s.circuit, limits)?;
             Ok(s)
         }
         (SpecBody::Function(f), Method::Xag) => {
-            let s = bennett::bennett_xag(f, limits)?;
+            let s = bennett::bennett_xag(f, limits, progress)?;
             check_gates(&s.circuit, limits)?;
             Ok(s)
         }

@@ -23,7 +23,7 @@ use super::{Counterexample, RegisterValue};
 use crate::circuit::layout::ANCILLAE;
 use crate::circuit::Circuit;
 use crate::logic::{Dag, NodeId, Term};
-use crate::progress::Progress;
+use crate::progress::{Event, Progress, Task};
 use crate::spec::{ArithOp, ArithSpec, OutputDef, Spec, SpecBody};
 use std::collections::HashMap;
 use std::time::Duration;
@@ -541,8 +541,19 @@ pub fn sat_equivalence(
     // Sweep first: for structured circuits every difference is usually
     // proven 0 signal by signal, with no global solve at all.
     let started = std::time::Instant::now();
-    let merged = sweep(&cnf.defs, cnf.truth, &mut || {
+    let merged = sweep(&cnf.defs, cnf.truth, &mut |done, total| {
+        stop.event(Event::Stage {
+            task: Task::Sweep,
+            done,
+            total,
+        });
         started.elapsed() >= budget || stop.cancelled()
+    });
+    let swept = cnf.defs.len() as u64;
+    stop.event(Event::Stage {
+        task: Task::Sweep,
+        done: swept,
+        total: swept,
     });
     let falsity = -cnf.truth;
     if diffs.iter().all(|&d| merged.resolve(d) == falsity) {
@@ -561,7 +572,18 @@ pub fn sat_equivalence(
         cnf.s.add_clause([-v, r]);
         cnf.s.add_clause([v, -r]);
     }
-    match cnf.find(&diffs, &domain, &free) {
+    stop.event(Event::Stage {
+        task: Task::Solve,
+        done: 0,
+        total: 0,
+    });
+    let found = cnf.find(&diffs, &domain, &free);
+    stop.event(Event::Stage {
+        task: Task::Solve,
+        done: 1,
+        total: 1,
+    });
+    match found {
         None => Ok(SatOutcome::Timeout),
         Some(None) => Ok(SatOutcome::Equivalent),
         Some(Some(input)) => confirm(circuit, spec, &binding, &input),

@@ -92,9 +92,10 @@ fn lit_words(words: &[[u64; WORDS]], lit: i32) -> [u64; WORDS] {
 }
 
 /// Sweeps the variables `1..defs.len()` (index 0 unused), `truth` being the
-/// constant-true variable. `stop` is asked now and then whether to give up;
-/// what was proven until then stands.
-pub(super) fn sweep(defs: &[Def], truth: i32, stop: &mut dyn FnMut() -> bool) -> Merged {
+/// constant-true variable. `stop` is asked now and then, with the variables
+/// swept so far and in all, whether to give up; what was proven until then
+/// stands.
+pub(super) fn sweep(defs: &[Def], truth: i32, stop: &mut dyn FnMut(u64, u64) -> bool) -> Merged {
     let n = defs.len();
     let mut repr: Vec<i32> = (0..n as i32).collect();
     let mut words: Vec<[u64; WORDS]> = vec![[0; WORDS]; n];
@@ -111,7 +112,7 @@ pub(super) fn sweep(defs: &[Def], truth: i32, stop: &mut dyn FnMut() -> bool) ->
     let mut complete = true;
     for v in 1..n {
         // Asked first thing too, so a zero budget does no work.
-        if v % 1024 == 1 && stop() {
+        if v % 1024 == 1 && stop(v as u64 - 1, n as u64) {
             complete = false;
             break;
         }
@@ -325,7 +326,7 @@ mod tests {
         d.push(Def::Xor(3, 4)); // 10
         d.push(Def::And(vec![9, 10])); // 11
         d.push(Def::Xor(11, 4)); // 12 = maj
-        let m = sweep(&d, 1, &mut || false);
+        let m = sweep(&d, 1, &mut |_, _| false);
         assert_eq!(m.resolve(12), -8);
         assert_eq!(m.resolve(8), 8);
     }
@@ -338,7 +339,7 @@ mod tests {
         d.push(Def::And(vec![2, 3])); // 5
         d.push(Def::And(vec![2, 3, 4])); // 6
         d.push(Def::Xor(5, 6)); // 7 = a & b & !c, not constant
-        let m = sweep(&d, 1, &mut || false);
+        let m = sweep(&d, 1, &mut |_, _| false);
         assert_eq!(m.resolve(6), 6);
         assert_eq!(m.resolve(7), 7);
         assert_eq!(m.equalities().count(), 0);
@@ -350,7 +351,7 @@ mod tests {
         d.push(Def::Xor(2, 3)); // 5 = a ^ b
         d.push(Def::Xor(5, 3)); // 6 = a
         d.push(Def::Xor(6, 2)); // 7 = 0
-        let m = sweep(&d, 1, &mut || false);
+        let m = sweep(&d, 1, &mut |_, _| false);
         assert_eq!(m.resolve(6), 2);
         assert_eq!(m.resolve(7), -1);
     }
@@ -360,7 +361,7 @@ mod tests {
         let mut d = inputs();
         d.push(Def::Xor(2, 3));
         d.push(Def::Xor(5, 3));
-        let m = sweep(&d, 1, &mut || true);
+        let m = sweep(&d, 1, &mut |_, _| true);
         assert_eq!(m.equalities().count(), 0);
         assert_eq!(m.witness(&[6], &[], &[2, 3]), None);
     }

@@ -3,30 +3,31 @@
 use crate::cli::args::LimitArgs;
 use crate::cli::files::load_spec;
 use crate::cli::render::stop_hint;
+use crate::cli::render::Bars;
 use crate::cli::{code, Failure};
 use oraculum::export::json::CompareReport;
-use oraculum::pipeline::{best_of, compare, tradeoff, tradeoff_note};
+use oraculum::pipeline::{best_of, compare_with_progress, tradeoff_with_progress};
 use oraculum::{Verdict, Verification};
 use std::path::Path;
 
 pub fn run(spec_path: &Path, json: bool, limits: &LimitArgs) -> Result<i32, Failure> {
     let spec = load_spec(spec_path)?;
     let opts = limits.build_options(None, true);
-    let rows = compare(&spec, &opts);
+    let bars = Bars::new(json);
+    let rows = compare_with_progress(&spec, &opts, &bars);
     let best = best_of(&rows);
-    let curve = tradeoff(&spec, &opts);
+    let curve = tradeoff_with_progress(&spec, &opts, &bars);
     let refuted = rows.iter().any(|(_, r)| {
         matches!(r, Ok(o) if matches!(o.verification, Verification::Ran(Verdict::Refuted { .. })))
     });
     if json {
-        let mut report = CompareReport::new(
+        let report = CompareReport::new(
             spec_path.display().to_string(),
             spec.name.as_deref(),
             &rows,
             best,
             &curve,
         );
-        report.tradeoff_note = tradeoff_note(&spec);
         outln!(
             "{}",
             serde_json::to_string_pretty(&report).unwrap_or_default()
@@ -74,12 +75,9 @@ pub fn run(spec_path: &Path, json: bool, limits: &LimitArgs) -> Result<i32, Fail
         if let Some(m) = best {
             outln!("* fewest Toffolis among verified circuits: {m} (synth --method {m} writes it)");
         }
-        if let Some(note) = tradeoff_note(&spec) {
-            outln!("\nnote: {note}");
-        }
-        if curve.len() > 1 {
+        if curve.points.len() > 1 {
             outln!("\nqubits against Toffolis, bennett with --max-qubits:");
-            for o in &curve {
+            for o in &curve.points {
                 let v = if o.verification.is_proven() {
                     "verified"
                 } else {
@@ -91,6 +89,9 @@ pub fn run(spec_path: &Path, json: bool, limits: &LimitArgs) -> Result<i32, Fail
                     o.cost.toffoli
                 );
             }
+        }
+        for note in &curve.notes {
+            outln!("\nnote: {note}");
         }
     }
     Ok(if refuted { code::REFUTED } else { code::DONE })
