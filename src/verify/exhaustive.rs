@@ -126,9 +126,16 @@ pub(super) fn verify_words(
     let checked = AtomicU64::new(0);
     // A cancelled block is `Some(Err(()))`, so that the search ends there as
     // at a failure instead of passing over every remaining block.
-    let found = (lo..hi)
+    // Blocks go to threads in runs of about 2^20 gate x word operations, so a
+    // short circuit does not pay the scheduler once per 4,096 states.
+    let per_block = (circuit.gates().len() + 2 * circuit.width()).max(1) * W;
+    let run = (1usize << 20).div_ceil(per_block).clamp(1, 64);
+    // Block numbers fit a usize: the state space is at most 2^63 states.
+    let found = (lo as usize..hi as usize)
         .into_par_iter()
+        .with_min_len(run)
         .map_init(Work::default, |work, b| {
+            let b = b as u64;
             if progress.cancelled() {
                 return Some(Err(()));
             }
@@ -336,6 +343,19 @@ impl Checker<'_> {
             .expect("the program was built for this width");
         let care = self.expected(base, work);
         let expected = &work.expected;
+        // Every line's difference ORed into one row, line by line (whole
+        // rows at a time, so the loops vectorize), then the words in order.
+        let mut bad = unheld;
+        for &a in &self.binding.ancillae {
+            for (b, v) in bad.iter_mut().zip(&rows[a]) {
+                *b |= v;
+            }
+        }
+        for (&line, e) in self.binding.free.iter().zip(expected.iter()) {
+            for ((b, v), x) in bad.iter_mut().zip(&rows[line]).zip(e) {
+                *b |= v ^ x;
+            }
+        }
         let mut count = 0u64;
         let mut failed = None;
         let valid_last = if self.states < 64 {
@@ -348,18 +368,10 @@ impl Checker<'_> {
             if word < first || word >= end {
                 continue;
             }
-            let mut bad = unheld[i];
-            for &a in &self.binding.ancillae {
-                bad |= rows[a][i];
-            }
-            for (&line, e) in self.binding.free.iter().zip(expected.iter()) {
-                bad |= rows[line][i] ^ e[i];
-            }
             let mask = valid_last & care[i];
-            bad &= mask;
             count += mask.count_ones() as u64;
-            if bad != 0 {
-                failed = Some(word * 64 + bad.trailing_zeros() as u64);
+            if bad[i] & mask != 0 {
+                failed = Some(word * 64 + (bad[i] & mask).trailing_zeros() as u64);
                 break;
             }
         }
