@@ -19,6 +19,7 @@ fn main() {
             ..SynthLimits::default()
         },
         verify: Some(Default::default()),
+        ..BuildOptions::default()
     };
     // A network of our own: a 12-input scheduling predicate with shared terms.
     let sched = "kind = \"function\"\nname = \"room-plan\"\ninputs = [\"m0\",\"m1\",\"m2\",\"m3\",\"m4\",\"m5\",\"r0\",\"r1\",\"r2\",\"r3\",\"r4\",\"r5\"]\noutputs = [\"ok\", \"tight\"]\n[let]\nclash = \"m0 & r0 | m1 & r1 | m2 & r2 | m3 & r3 | m4 & r4 | m5 & r5\"\nload = \"(m0 ^ m1 ^ m2) & (m3 | m4 | m5)\"\n[expr]\nok = \"!clash & load & (r0 | r1)\"\ntight = \"clash ^ load & r5\"\n";
@@ -148,6 +149,7 @@ fn pebbling_growth() {
                 method: Some(Method::Bennett),
                 limits,
                 verify: None,
+                ..BuildOptions::default()
             };
             build_one(&s, Method::Bennett, &opts, &())
         };

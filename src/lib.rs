@@ -43,7 +43,7 @@ pub mod synth;
 pub mod verify;
 pub mod xag;
 
-pub use circuit::{Circuit, Control, Cost, Gate, Line, LineInfo, Role};
+pub use circuit::{Circuit, Control, Cost, Gate, Line, LineInfo, Role, Uncompute};
 pub use exact::Tables;
 pub use export::{read_qasm, write_qasm, QasmHeader};
 pub use limit::{Limit, Stop};

@@ -867,3 +867,68 @@ fn netlist_spec_errors_are_located() {
         assert!(err.contains(words), "{spec}: {err}");
     }
 }
+
+// `--uncompute measure`: fuel-sum is an 8-bit adder with carry-out, n = 8
+// Toffoli-equivalents by Gidney's adder (Quantum 2, 74, 2018) against
+// 2n - 1 = 15 Toffolis in toffoli mode; the file written is proven from disk.
+#[test]
+fn measure_mode_from_the_command_line() {
+    let dir = workspace();
+    let o = run_in(
+        dir.path(),
+        &[
+            "synth",
+            "specs/fuel-sum.toml",
+            "--uncompute",
+            "measure",
+            "--json",
+            "-o",
+            "m.qasm",
+        ],
+    );
+    assert_eq!(o.status.code(), Some(0), "{:?}", text(&o));
+    let v: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
+    assert_eq!(v["cost"]["mode"], "measure");
+    assert_eq!(v["cost"]["toffoli_equivalent"], 8);
+    let o = run_in(
+        dir.path(),
+        &["verify", "m.qasm", "--spec", "specs/fuel-sum.toml"],
+    );
+    assert_eq!(o.status.code(), Some(0), "{:?}", text(&o));
+    let o = run_in(dir.path(), &["synth", "specs/fuel-sum.toml", "--json"]);
+    let v: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
+    assert_eq!(v["cost"]["mode"], "toffoli");
+    assert_eq!(v["cost"]["toffoli"], 15);
+    // compare shows the mode and ranks by Toffoli-equivalents.
+    let o = run_in(
+        dir.path(),
+        &[
+            "compare",
+            "specs/greenhouse.toml",
+            "--uncompute",
+            "measure",
+            "--json",
+        ],
+    );
+    assert_eq!(o.status.code(), Some(0), "{:?}", text(&o));
+    let v: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
+    assert_eq!(v["mode"], "measure");
+    let methods = v["methods"].as_array().unwrap();
+    let fewest = methods
+        .iter()
+        .map(|m| m["cost"]["toffoli_equivalent"].as_u64().unwrap())
+        .min()
+        .unwrap();
+    let best = methods.iter().find(|m| m["method"] == v["best"]).unwrap();
+    assert_eq!(best["cost"]["toffoli_equivalent"].as_u64().unwrap(), fewest);
+    let o = run_in(
+        dir.path(),
+        &["compare", "specs/greenhouse.toml", "--uncompute", "measure"],
+    );
+    assert!(text(&o).0.contains("uncompute: measure"), "{:?}", text(&o));
+    let o = run_in(
+        dir.path(),
+        &["synth", "specs/greenhouse.toml", "--uncompute", "both"],
+    );
+    assert_eq!(o.status.code(), Some(2));
+}

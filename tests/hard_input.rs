@@ -35,6 +35,7 @@ fn small() -> BuildOptions {
             sat_seconds: 1.0,
             ..VerifyOptions::default()
         }),
+        ..BuildOptions::default()
     }
 }
 

@@ -22,6 +22,7 @@ fn with_budget(q: Option<usize>) -> BuildOptions {
             ..SynthLimits::default()
         },
         verify: Some(Default::default()),
+        ..BuildOptions::default()
     }
 }
 

@@ -13,7 +13,7 @@ use oraculum::verify::Route;
 use oraculum::{
     build_with_progress, invert, parse_spec, verify_inverse_with_progress, BuildError,
     BuildOptions, Counterexample, Event, Limit, Method, Outcome, Progress, Spec, SynthLimits,
-    Tables, Verdict, Verification, VerifyOptions,
+    Tables, Uncompute, Verdict, Verification, VerifyOptions,
 };
 use pyo3::create_exception;
 use pyo3::exceptions::{PyException, PyRuntimeError, PyTypeError, PyValueError};
@@ -284,6 +284,7 @@ impl Limits {
                 max_clauses: self.max_clauses,
             },
             verify: verify.then(|| self.verify_options()),
+            uncompute: Uncompute::Toffoli,
         }
     }
 }
@@ -445,14 +446,25 @@ impl Oracle {
     }
 }
 
+/// `uncompute="toffoli"` or `"measure"`, as `--uncompute` takes it.
+fn uncompute_of(name: &str) -> PyResult<Uncompute> {
+    Uncompute::from_name(name).ok_or_else(|| {
+        PyValueError::new_err(format!(
+            "unknown uncompute {name:?}; one of toffoli, measure"
+        ))
+    })
+}
+
 /// Synthesizes `spec` (a path, TOML text or dict) with `method` ("auto"
 /// tries every cheap method and keeps the best verified circuit), lowers and
-/// verifies it. Keyword arguments are the command line's limits.
+/// verifies it. Keyword arguments are the command line's limits, and
+/// `uncompute` ("toffoli", or "measure" for measured uncomputes ranked by
+/// Toffoli-equivalents).
 #[pyfunction]
 #[pyo3(signature = (
     spec, method="auto", *, verify=true, inverse=false, as_gate=None, max_qubits=None,
     max_states=None, max_inputs=None, max_gates=None, exact_seconds=None, verify_method="auto",
-    sat_seconds=None, max_clauses=None
+    sat_seconds=None, max_clauses=None, uncompute="toffoli"
 ))]
 #[allow(clippy::too_many_arguments)]
 fn synthesize(
@@ -470,6 +482,7 @@ fn synthesize(
     verify_method: &str,
     sat_seconds: Option<f64>,
     max_clauses: Option<usize>,
+    uncompute: &str,
 ) -> PyResult<Oracle> {
     let spec = load_spec(py, spec)?;
     let limits = Limits::new(
@@ -482,7 +495,8 @@ fn synthesize(
         max_qubits,
         max_clauses,
     )?;
-    let opts = limits.build_options(method_of(method)?, verify);
+    let mut opts = limits.build_options(method_of(method)?, verify);
+    opts.uncompute = uncompute_of(uncompute)?;
     // As `oraculum synth [--inverse]`: build, invert a circuit that was not
     // refuted, then give the registers the spec's own names.
     let mut outcome = interruptible(py, |p| {
@@ -602,7 +616,8 @@ fn standard_names(c: oraculum::Circuit, spec: &Spec) -> PyResult<oraculum::Circu
 #[pyfunction]
 #[pyo3(signature = (
     spec, *, max_qubits=None, max_states=None, max_inputs=None, max_gates=None,
-    exact_seconds=None, verify_method="auto", sat_seconds=None, max_clauses=None
+    exact_seconds=None, verify_method="auto", sat_seconds=None, max_clauses=None,
+    uncompute="toffoli"
 ))]
 #[allow(clippy::too_many_arguments)]
 fn compare<'py>(
@@ -616,6 +631,7 @@ fn compare<'py>(
     verify_method: &str,
     sat_seconds: Option<f64>,
     max_clauses: Option<usize>,
+    uncompute: &str,
 ) -> PyResult<Bound<'py, PyAny>> {
     let spec = load_spec(py, spec)?;
     let limits = Limits::new(
@@ -628,7 +644,8 @@ fn compare<'py>(
         max_qubits,
         max_clauses,
     )?;
-    let opts = limits.build_options(None, true);
+    let mut opts = limits.build_options(None, true);
+    opts.uncompute = uncompute_of(uncompute)?;
     let rows = interruptible(py, |p| compare_with_progress(&spec, &opts, p))?;
     if rows
         .iter()

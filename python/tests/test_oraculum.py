@@ -404,3 +404,21 @@ def test_the_readme_example_runs_as_written(monkeypatch):
     assert ns["spec"]["table"] == {"most": "0xe8"}
     assert ns["rows"] and all("method" in r for r in ns["rows"])
     assert oraculum.verify(vote.qasm(), ns["spec"])["verdict"] == "proven"
+
+
+def test_uncompute_measure_keyword():
+    # Gidney, "Halving the cost of quantum addition", Quantum 2, 74 (2018):
+    # an n-bit adder mod 2^n with n - 1 Toffoli-equivalents (4 T each).
+    add = {"kind": "arithmetic", "op": "add", "width": 6}
+    o = oraculum.synthesize(add, uncompute="measure")
+    assert o.verified
+    assert o.cost["mode"] == "measure"
+    assert o.cost["toffoli_equivalent"] == 5
+    assert o.cost["t_count"] == 20
+    assert oraculum.synthesize(add).cost["mode"] == "toffoli"
+    # Majority's one AND, uncomputed by measurement: one Toffoli-equivalent.
+    rows = oraculum.compare(MAJORITY, uncompute="measure")
+    assert min(r["toffoli_equivalent"] for r in rows if r["verified"]) == 1
+    assert all(r["mode"] == "measure" for r in rows if r["error"] is None)
+    with pytest.raises(ValueError):
+        oraculum.synthesize(add, uncompute="both")

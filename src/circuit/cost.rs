@@ -13,9 +13,45 @@ pub const T_PER_TOFFOLI: usize = 7;
 /// Gidney, Quantum 2, 74 (2018), Fig. 3. The measured uncompute costs none.
 pub const T_PER_TEMPORARY_AND: usize = 4;
 
+/// How ANDs computed into clean ancillae are uncomputed: by a second
+/// Toffoli (`toffoli`, pure NOT/CNOT/Toffoli output) or by measurement
+/// (`measure`: a temporary AND and a measured uncompute, Jones 2013 and
+/// Gidney 2018).
+#[derive(Clone, Copy, Debug, Default, PartialEq, Eq, PartialOrd, Ord, Hash, Serialize)]
+#[serde(rename_all = "lowercase")]
+pub enum Uncompute {
+    /// Every uncompute is a Toffoli.
+    #[default]
+    Toffoli,
+    /// Every provable uncompute of an AND is a measurement.
+    Measure,
+}
+
+impl Uncompute {
+    /// The mode's name, as `--uncompute` takes it.
+    pub fn name(self) -> &'static str {
+        match self {
+            Uncompute::Toffoli => "toffoli",
+            Uncompute::Measure => "measure",
+        }
+    }
+
+    /// The mode named `name`.
+    pub fn from_name(name: &str) -> Option<Uncompute> {
+        match name {
+            "toffoli" => Some(Uncompute::Toffoli),
+            "measure" => Some(Uncompute::Measure),
+            _ => None,
+        }
+    }
+}
+
 /// Cost of a circuit before and after lowering, as design.md defines it.
 #[derive(Clone, Debug, PartialEq, Eq, Serialize)]
 pub struct Cost {
+    /// How uncomputes are made: `measure` when the circuit has a measured
+    /// uncompute or a temporary AND (or was built in that mode), else `toffoli`.
+    pub mode: Uncompute,
     /// All lines of the lowered circuit, ancillae included.
     pub qubits: usize,
     /// Gates before lowering, keyed by number of controls.
@@ -66,7 +102,13 @@ impl Cost {
             .filter(|g| g.is_temporary_and())
             .count();
         let (depth, toffoli_depth) = depths(lowered);
+        let mode = if lowered.special_count() > 0 {
+            Uncompute::Measure
+        } else {
+            Uncompute::Toffoli
+        };
         Cost {
+            mode,
             qubits: lowered.width(),
             mct,
             toffoli,
@@ -131,11 +173,14 @@ impl fmt::Display for Cost {
             "  depth {:<7} toffoli depth {:<5} t-count {}",
             self.depth, self.toffoli_depth, self.t_count
         )?;
-        if self.temporary_and + self.measured > 0 {
+        if self.temporary_and + self.measured > 0 || self.mode == Uncompute::Measure {
             writeln!(
                 f,
-                "  temporary and {:<5} measured {:<6} toffoli-equivalent {}",
-                self.temporary_and, self.measured, self.toffoli_equivalent
+                "  uncompute {} temporary and {:<5} measured {:<6} toffoli-equivalent {}",
+                self.mode.name(),
+                self.temporary_and,
+                self.measured,
+                self.toffoli_equivalent
             )?;
         }
         write!(

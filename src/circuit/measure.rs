@@ -15,8 +15,10 @@
 //! `s`, with controls whose forms now are the recorded ones, clears that line
 //! on every input: it is rewritten as a measured uncompute, and the Toffoli
 //! that made `s` as a temporary AND. Any other gate gives its target a fresh
-//! unrecorded symbol; forms past [`MAX_TERMS`] symbols are forgotten
-//! (nothing is rewritten on them). Equal forms are equal functions, so every
+//! unrecorded symbol; a form that would pass [`MAX_TERMS`] symbols is
+//! replaced by a fresh symbol too (it stands for the line's value at that
+//! point, a fixed function of the inputs, so equal forms stay equal
+//! functions; a line left alone until its AND is uncomputed still matches). Equal forms are equal functions, so every
 //! rewrite keeps the circuit's function; the verifier checks each one anyway.
 //!
 //! Lines of the `anc` register start at 0; every other line starts as its
@@ -27,7 +29,7 @@ use super::{layout, Circuit, Control, Gate, Kind};
 use smallvec::SmallVec;
 use std::collections::HashMap;
 
-/// Most symbols a line's form keeps before it is forgotten.
+/// Most symbols a line's form keeps before it is replaced by a fresh one.
 pub const MAX_TERMS: usize = 16;
 
 /// An affine form over GF(2): XOR of `syms` (sorted, distinct) and `one`.
@@ -144,7 +146,13 @@ fn rewrite(circuit: &mut Circuit, measure: bool) -> Rewritten {
                 }
             }
             (Kind::Flip, 1, Some(l)) => {
-                form[t] = form[t].as_ref().and_then(|f| f.xor(&l[0]));
+                let s = fresh();
+                form[t] = Some(
+                    form[t]
+                        .as_ref()
+                        .and_then(|f| f.xor(&l[0]))
+                        .unwrap_or_else(|| Form::sym(s)),
+                );
             }
             (_, 2, Some(mut l)) => {
                 l.sort_by(|a, b| (&a.syms[..], a.one).cmp(&(&b.syms[..], b.one)));
@@ -182,14 +190,24 @@ fn rewrite(circuit: &mut Circuit, measure: bool) -> Rewritten {
                     }
                     _ => {
                         let s = fresh();
-                        form[t] = form[t].as_ref().and_then(|f| f.xor(&Form::sym(s)));
+                        form[t] = Some(
+                            form[t]
+                                .as_ref()
+                                .and_then(|f| f.xor(&Form::sym(s)))
+                                .unwrap_or_else(|| Form::sym(s)),
+                        );
                     }
                 }
             }
             (Kind::Measured, _, _) => form[t] = Some(Form::zero()),
             _ => {
                 let s = fresh();
-                form[t] = form[t].as_ref().and_then(|f| f.xor(&Form::sym(s)));
+                form[t] = Some(
+                    form[t]
+                        .as_ref()
+                        .and_then(|f| f.xor(&Form::sym(s)))
+                        .unwrap_or_else(|| Form::sym(s)),
+                );
             }
         }
     }

@@ -5,7 +5,7 @@ pub mod layout;
 pub mod measure;
 pub mod rewrite;
 
-pub use cost::Cost;
+pub use cost::{Cost, Uncompute};
 
 use serde::Serialize;
 use smallvec::SmallVec;

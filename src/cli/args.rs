@@ -2,7 +2,7 @@
 
 use clap::builder::{PossibleValuesParser, TypedValueParser};
 use clap::{Parser, Subcommand, ValueEnum};
-use oraculum::{Method, Route, SynthLimits, VerifyOptions};
+use oraculum::{Method, Route, SynthLimits, Uncompute, VerifyOptions};
 use std::path::PathBuf;
 
 pub const AFTER_HELP: &str =
@@ -39,6 +39,11 @@ fn method_parser() -> impl TypedValueParser<Value = Choice> {
         .chain(Method::all().map(Method::name))
         .collect();
     PossibleValuesParser::new(names).map(|s| Choice(Method::from_name(&s)))
+}
+
+fn uncompute_parser() -> impl TypedValueParser<Value = Uncompute> {
+    PossibleValuesParser::new(["toffoli", "measure"])
+        .map(|s| Uncompute::from_name(&s).unwrap_or_default())
 }
 
 fn route_parser() -> impl TypedValueParser<Value = Route> {
@@ -162,6 +167,9 @@ pub enum Command {
         /// Print the circuit's lines and gates as one JSON object.
         #[arg(long)]
         json: bool,
+        /// For a spec: uncompute ANDs by Toffoli gates or by measurement.
+        #[arg(long, default_value = "toffoli", value_parser = uncompute_parser())]
+        uncompute: Uncompute,
         /// For a circuit file: most gates it may hold, whole-register statements expanded.
         #[arg(long, default_value_t = oraculum::export::DEFAULT_MAX_GATES)]
         max_gates: usize,
@@ -233,6 +241,9 @@ pub struct LimitArgs {
     /// Most clauses a SAT encoding of synthesis (pebbling, esop-exact) may have.
     #[arg(long, default_value_t = SynthLimits::default().max_clauses)]
     pub max_clauses: usize,
+    /// Uncompute each AND held by a clean ancilla by a second Toffoli (toffoli: NOT/CNOT/Toffoli only) or by measurement (measure: a 4-T temporary AND, then a measurement and a classically controlled CZ; auto ranks by Toffoli-equivalents).
+    #[arg(long, default_value = "toffoli", value_parser = uncompute_parser())]
+    pub uncompute: Uncompute,
 }
 
 impl LimitArgs {
@@ -252,6 +263,7 @@ impl LimitArgs {
                 route: self.verify_method,
                 sat_seconds: self.sat_seconds,
             }),
+            uncompute: self.uncompute,
         }
     }
 }

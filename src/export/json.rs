@@ -1,7 +1,7 @@
 //! The JSON reports of the command line, one serializable struct per command
 //! (docs/json.md lists their fields; field names are stable).
 
-use crate::circuit::Cost;
+use crate::circuit::{Cost, Uncompute};
 use crate::exact::Level;
 use crate::pipeline::{BuildError, Curve, Outcome, Report};
 use crate::synth::Method;
@@ -66,6 +66,8 @@ pub struct TradeoffPoint {
     pub qubits: usize,
     /// Its Toffoli count.
     pub toffoli: usize,
+    /// Toffolis plus temporary ANDs.
+    pub toffoli_equivalent: usize,
     /// Whether it was proven.
     pub verified: bool,
 }
@@ -77,6 +79,8 @@ pub struct CompareReport<'a> {
     pub spec: String,
     /// The spec's name.
     pub name: Option<&'a str>,
+    /// How uncomputes were made (`toffoli` or `measure`), as every row's cost says.
+    pub mode: Uncompute,
     /// One row per method.
     pub methods: Vec<CompareRow<'a>>,
     /// The method `auto` would pick, if any circuit was proven.
@@ -100,6 +104,11 @@ impl<'a> CompareReport<'a> {
         CompareReport {
             spec,
             name,
+            mode: rows
+                .iter()
+                .filter_map(|(_, r)| r.as_ref().ok().map(|o| o.cost.mode))
+                .max()
+                .unwrap_or_default(),
             methods: rows
                 .iter()
                 .map(|(m, r)| match r {
@@ -117,6 +126,7 @@ impl<'a> CompareReport<'a> {
                 .map(|o| TradeoffPoint {
                     qubits: o.cost.qubits,
                     toffoli: o.cost.toffoli,
+                    toffoli_equivalent: o.cost.toffoli_equivalent,
                     verified: o.verification.is_proven(),
                 })
                 .collect(),
@@ -199,13 +209,17 @@ pub struct CompareTableRow {
     pub mct: Option<usize>,
     /// Toffoli gates after lowering.
     pub toffoli: Option<usize>,
+    /// Toffolis plus temporary ANDs (what `auto` ranks by).
+    pub toffoli_equivalent: Option<usize>,
+    /// `toffoli` or `measure`.
+    pub mode: Option<Uncompute>,
     /// CNOT gates after lowering.
     pub cnot: Option<usize>,
     /// NOT gates after lowering.
     pub not: Option<usize>,
     /// All lines, ancillae included.
     pub qubits: Option<usize>,
-    /// 7 per Toffoli.
+    /// 7 per Toffoli, 4 per temporary AND.
     pub t_count: Option<usize>,
     /// Seconds of synthesis, lowering and verification.
     pub seconds: Option<f64>,
@@ -237,6 +251,8 @@ impl CompareTable {
                     best: Some(*m) == best,
                     mct: Some(o.cost.mct_total()),
                     toffoli: Some(o.cost.toffoli),
+                    toffoli_equivalent: Some(o.cost.toffoli_equivalent),
+                    mode: Some(o.cost.mode),
                     cnot: Some(o.cost.cnot),
                     not: Some(o.cost.not),
                     qubits: Some(o.cost.qubits),
@@ -255,6 +271,8 @@ impl CompareTable {
                     best: false,
                     mct: None,
                     toffoli: None,
+                    toffoli_equivalent: None,
+                    mode: None,
                     cnot: None,
                     not: None,
                     qubits: None,

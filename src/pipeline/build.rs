@@ -2,13 +2,14 @@
 
 use super::{BuildError, BuildOptions, Outcome, Timings, Verification};
 use crate::circuit::layout::OUTPUTS;
-use crate::circuit::{Circuit, Cost};
+use crate::circuit::measure::measure_uncomputes;
+use crate::circuit::{Circuit, Cost, Uncompute};
 use crate::limit::Limit;
 use crate::lower::{lower, lowered_len};
 use crate::opt::optimize;
 use crate::progress::Progress;
 use crate::spec::{OracleForm, Spec};
-use crate::synth::{synthesize, Method, SynthError};
+use crate::synth::{synthesize_in, Method, SynthError};
 use crate::verify::{verify_inverse_with_progress, verify_with_progress};
 use std::time::Instant;
 
@@ -48,14 +49,22 @@ pub fn build_one(
     progress: &dyn Progress,
 ) -> Result<Outcome, BuildError> {
     let t0 = Instant::now();
-    let synthesis = synthesize(spec, method, &opts.limits, progress)?;
+    let synthesis = synthesize_in(spec, method, &opts.limits, opts.uncompute, progress)?;
     let t1 = Instant::now();
-    let (mct, mut lowered) = optimized(synthesis.circuit, opts.limits.max_gates)?;
+    let (mut mct, mut lowered) = optimized(synthesis.circuit, opts.limits.max_gates)?;
+    if opts.uncompute == Uncompute::Measure {
+        // After optimization (which leaves circuits with measured gates
+        // alone) and lowering, so that the chains lowering adds are measured
+        // too; the circuit before lowering gets the same rewrite for drawings.
+        measure_uncomputes(&mut lowered);
+        measure_uncomputes(&mut mct);
+    }
     if spec.form == OracleForm::Phase {
         lowered.set_phase(lowered.register(OUTPUTS).first().copied());
     }
     let t2 = Instant::now();
-    let cost = Cost::measure(&mct, &lowered);
+    let mut cost = Cost::measure(&mct, &lowered);
+    cost.mode = cost.mode.max(opts.uncompute);
     let verification = match &opts.verify {
         Some(v) => Verification::Ran(verify_with_progress(&lowered, spec, v, progress)?),
         None => Verification::Skipped { verdict: "skipped" },
@@ -102,7 +111,8 @@ pub fn invert(
         Some(v) => Verification::Ran(verify_with_progress(&lowered, spec, v, progress)?),
         None => Verification::Skipped { verdict: "skipped" },
     };
-    let cost = Cost::measure(&mct, &lowered);
+    let mut cost = Cost::measure(&mct, &lowered);
+    cost.mode = cost.mode.max(out.cost.mode);
     Ok(Outcome {
         mct,
         lowered,

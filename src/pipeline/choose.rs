@@ -267,7 +267,10 @@ pub fn tradeoff_with_progress(spec: &Spec, opts: &BuildOptions, progress: &dyn P
     // point below it.
     let mut front: Vec<Outcome> = Vec::with_capacity(points.len());
     for p in points.into_iter().rev() {
-        if front.last().is_none_or(|b| p.cost.toffoli < b.cost.toffoli) {
+        if front
+            .last()
+            .is_none_or(|b| p.cost.toffoli_equivalent < b.cost.toffoli_equivalent)
+        {
             front.push(p);
         }
     }
@@ -277,7 +280,9 @@ pub fn tradeoff_with_progress(spec: &Spec, opts: &BuildOptions, progress: &dyn P
 }
 
 /// The ranking of `auto` and `compare`: within the qubit budget, then
-/// verified, then fewest Toffolis, qubits and gates before lowering.
+/// verified, then fewest Toffoli-equivalents (Toffolis, plus temporary ANDs
+/// in `measure` mode; in `toffoli` mode there are none), qubits and gates
+/// before lowering.
 fn rank(o: &Outcome, max_qubits: Option<usize>) -> (u8, u8, usize, usize, usize) {
     let verdict = match &o.verification {
         Verification::Ran(Verdict::Proven { .. }) | Verification::Skipped { .. } => 0,
@@ -287,7 +292,7 @@ fn rank(o: &Outcome, max_qubits: Option<usize>) -> (u8, u8, usize, usize, usize)
     (
         over,
         verdict,
-        o.cost.toffoli,
+        o.cost.toffoli_equivalent,
         o.cost.qubits,
         o.cost.mct_total(),
     )
@@ -315,6 +320,9 @@ fn pick_best(
     let summary: Vec<String> = tried
         .iter()
         .map(|(m, r)| match r {
+            Ok(o) if o.cost.temporary_and > 0 => {
+                format!("{m} ({} Toffoli-equivalent)", o.cost.toffoli_equivalent)
+            }
             Ok(o) => format!("{m} ({} Toffoli)", o.cost.toffoli),
             Err(e) => format!("{m} (no circuit: {e})"),
         })

@@ -12,7 +12,7 @@ pub use choose::{
 };
 pub use grover::{grover_facts, iterations, Fact, Grover};
 
-use crate::circuit::{Circuit, Cost};
+use crate::circuit::{Circuit, Cost, Uncompute};
 use crate::limit::{Limit, Stop};
 use crate::spec::OracleForm;
 use crate::synth::{Method, SynthError, SynthLimits};
@@ -28,6 +28,8 @@ pub struct BuildOptions {
     pub limits: SynthLimits,
     /// `None` skips verification (the report says so).
     pub verify: Option<VerifyOptions>,
+    /// How ANDs in clean ancillae are uncomputed (`--uncompute`).
+    pub uncompute: Uncompute,
 }
 
 /// Whether and how the circuit was checked.

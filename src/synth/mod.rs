@@ -17,7 +17,9 @@ mod pebble;
 mod reed_muller;
 mod transform;
 
-pub use arith::{arith_lines, arithmetic, Registers};
+pub use arith::gidney::{gidney_add, gidney_ands};
+pub use arith::lookup::unary_lookup;
+pub use arith::{arith_lines, arithmetic, arithmetic_measured, Registers};
 pub use bennett::{bennett, bennett_counts, bennett_xag, xag_network, PEBBLE_SAT_MAX_NODES};
 pub use esop::{
     esop_circuit, esop_counted, esop_of, minimize_tables, EsopWork, EXORLINK_MAX_TERMS,
@@ -221,6 +223,34 @@ impl From<Circuit> for Synthesis {
             stop: None,
         }
     }
+}
+
+/// [`synthesize`] in an uncompute mode: in `measure` mode the arithmetic
+/// ops with a dedicated construction (Gidney's adder, unary iteration) are
+/// built with temporary ANDs and measured uncomputes; everything else is
+/// [`synthesize`]'s circuit (the pipeline measures its provable uncomputes).
+pub fn synthesize_in(
+    spec: &Spec,
+    method: Method,
+    limits: &SynthLimits,
+    uncompute: crate::circuit::Uncompute,
+    progress: &dyn Progress,
+) -> Result<Synthesis, SynthError> {
+    if let (SpecBody::Arithmetic(a), Method::Structural, crate::circuit::Uncompute::Measure) =
+        (&spec.body, method, uncompute)
+    {
+        if a.op == crate::spec::ArithOp::Lookup {
+            // One gate per set data bit and at most four per word: counted
+            // before any is built.
+            let ones: usize = a.data.iter().map(|w| w.count_ones() as usize).sum();
+            check_gate_count(ones.saturating_add(a.data.len().saturating_mul(4)), limits)?;
+        }
+        if let Some(c) = arithmetic_measured(a) {
+            check_gates(&c, limits)?;
+            return Ok(c.into());
+        }
+    }
+    synthesize(spec, method, limits, progress)
 }
 
 /// Synthesizes a circuit of MCT gates (not yet lowered) for `spec` with one

@@ -7,7 +7,7 @@ use crate::cli::render::Bars;
 use crate::cli::{code, Failure};
 use oraculum::export::json::CompareReport;
 use oraculum::pipeline::{best_of, compare_with_progress, tradeoff_with_progress};
-use oraculum::{Verdict, Verification};
+use oraculum::{Uncompute, Verdict, Verification};
 use std::path::Path;
 
 pub fn run(spec_path: &Path, json: bool, limits: &LimitArgs) -> Result<i32, Failure> {
@@ -33,11 +33,13 @@ pub fn run(spec_path: &Path, json: bool, limits: &LimitArgs) -> Result<i32, Fail
             serde_json::to_string_pretty(&report).unwrap_or_default()
         );
     } else {
+        let measure = opts.uncompute == Uncompute::Measure;
+        outln!("uncompute: {}", opts.uncompute.name());
         outln!(
             "{:<17} {:>8} {:>8} {:>8} {:>7} {:>8} {:>9}  verified",
             "method",
             "mct",
-            "toffoli",
+            if measure { "toff-eq" } else { "toffoli" },
             "cnot",
             "qubits",
             "t-count",
@@ -56,7 +58,7 @@ pub fn run(spec_path: &Path, json: bool, limits: &LimitArgs) -> Result<i32, Fail
                         "{:<17} {:>8} {:>8} {:>8} {:>7} {:>8} {:>9.3}  {v}",
                         format!("{m}{mark}"),
                         o.cost.mct_total(),
-                        o.cost.toffoli,
+                        o.cost.toffoli_equivalent,
                         o.cost.cnot,
                         o.cost.qubits,
                         o.cost.t_count,
@@ -73,7 +75,14 @@ pub fn run(spec_path: &Path, json: bool, limits: &LimitArgs) -> Result<i32, Fail
             }
         }
         if let Some(m) = best {
-            outln!("* fewest Toffolis among verified circuits: {m} (synth --method {m} writes it)");
+            let (what, flag) = if measure {
+                ("Toffoli-equivalents", " --uncompute measure")
+            } else {
+                ("Toffolis", "")
+            };
+            outln!(
+                "* fewest {what} among verified circuits: {m} (synth --method {m}{flag} writes it)"
+            );
         }
         if curve.points.len() > 1 {
             outln!("\nqubits against Toffolis, bennett with --max-qubits:");
@@ -84,9 +93,14 @@ pub fn run(spec_path: &Path, json: bool, limits: &LimitArgs) -> Result<i32, Fail
                     "NOT verified"
                 };
                 outln!(
-                    "  {:>5} qubits  {:>6} toffoli  {v}",
+                    "  {:>5} qubits  {:>6} {}  {v}",
                     o.cost.qubits,
-                    o.cost.toffoli
+                    o.cost.toffoli_equivalent,
+                    if measure {
+                        "toffoli-equivalent"
+                    } else {
+                        "toffoli"
+                    }
                 );
             }
         }

@@ -4,14 +4,16 @@ use crate::cli::files::{load_circuit, load_spec, write_atomic};
 use crate::cli::render::build_failure;
 use crate::cli::{code, Failure};
 use oraculum::export::{draw_svg, draw_text};
-use oraculum::{build, BuildOptions, Method};
+use oraculum::{build, BuildOptions, Method, Uncompute};
 use std::path::Path;
 
+#[allow(clippy::too_many_arguments)]
 pub fn run(
     input: &Path,
     svg: Option<&Path>,
     width: Option<usize>,
     lowered: bool,
+    uncompute: Uncompute,
     method: Option<Method>,
     json: bool,
     max_gates: usize,
@@ -25,18 +27,24 @@ pub fn run(
             &spec,
             &BuildOptions {
                 method,
+                uncompute,
                 ..BuildOptions::default()
             },
         )
         .map_err(build_failure)?;
         out.rename_registers(&spec.registers);
         let title = format!(
-            "{} ({}{})",
+            "{} ({}{}{})",
             spec.name
                 .clone()
                 .unwrap_or_else(|| input.display().to_string()),
             out.method,
-            if lowered { ", lowered" } else { "" }
+            if lowered { ", lowered" } else { "" },
+            if uncompute == Uncompute::Measure {
+                ", measured uncomputes"
+            } else {
+                ""
+            }
         );
         (if lowered { out.lowered } else { out.mct }, title)
     };

@@ -20,8 +20,12 @@
 //! Every generator is linear in the width. The verifier checks them all.
 
 mod build;
+pub mod gidney;
+pub mod lookup;
+mod measured;
 
 pub use build::{Bit, Builder};
+pub use measured::{arithmetic_measured, lookup_of};
 
 use crate::circuit::layout::{CARRY, CONTROL, OUTPUTS};
 use crate::circuit::{Circuit, Control, Gate, Line, LineInfo};
@@ -107,10 +111,7 @@ pub fn arithmetic(spec: &ArithSpec) -> Circuit {
         }
         ArithOp::IncrementMod => increment_mod(&mut b, &r.a, spec.modulus.unwrap_or(2), r.ctrl),
         ArithOp::AddMod => add_mod(&mut b, &r.a, &r.b, spec.modulus.unwrap_or(2), r.ctrl),
-        ArithOp::Lookup => {
-            b.set_ctrl(r.ctrl);
-            lookup(&mut b, &r.a, &r.y, &spec.data);
-        }
+        ArithOp::Lookup => return lookup_of(spec, false),
     }
     b.finish()
 }
@@ -351,6 +352,7 @@ fn add_mod(b: &mut Builder, a: &[Line], s: &[Line], n: u64, ctrl: Option<Line>) 
 /// `y ^= data[a]`: one multi-controlled NOT per set data bit, addresses in
 /// bit-reversed order so that neighbouring gates share the low address bits
 /// and lowering shares their AND chains.
+#[allow(dead_code)] // replaced by unary iteration (lookup.rs), kept for reference
 fn lookup(b: &mut Builder, a: &[Line], y: &[Line], data: &[u64]) {
     let w = a.len();
     for r in 0..1u64 << w {

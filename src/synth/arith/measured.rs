@@ -1,0 +1,47 @@
+//! The arithmetic generators of the fault-tolerant constructions, by op:
+//! Gidney's adder ([`super::gidney`]) for `add` and `sub` without a control
+//! in `measure` mode, and unary iteration ([`super::lookup`]) for `lookup` in
+//! both modes. Every other op keeps its structural circuit, whose provable
+//! uncomputes the pipeline measures.
+
+use super::arith_lines;
+use super::gidney::gidney_add;
+use super::lookup::unary_lookup;
+use crate::circuit::{Circuit, Gate};
+use crate::spec::{ArithOp, ArithSpec};
+
+/// The lookup of `spec` by unary iteration, with measured uncomputes when
+/// `measure` (else every uncompute a Toffoli).
+pub fn lookup_of(spec: &ArithSpec, measure: bool) -> Circuit {
+    let (lines, r) = arith_lines(spec);
+    let mut c = Circuit::new(lines);
+    unary_lookup(&mut c, r.ctrl, &r.a, &r.y, &spec.data, measure);
+    c
+}
+
+/// The circuit of `spec` built with temporary ANDs and measured uncomputes,
+/// when a dedicated construction exists for its op; `None` otherwise.
+pub fn arithmetic_measured(spec: &ArithSpec) -> Option<Circuit> {
+    let (lines, r) = arith_lines(spec);
+    match spec.op {
+        ArithOp::Lookup => Some(lookup_of(spec, true)),
+        ArithOp::Add if r.ctrl.is_none() => {
+            let mut c = Circuit::new(lines);
+            gidney_add(&mut c, &r.a, &r.b, r.cout, true);
+            Some(c)
+        }
+        ArithOp::Sub if r.ctrl.is_none() => {
+            // b - a = !(!b + a)
+            let mut c = Circuit::new(lines);
+            for &l in &r.b {
+                c.push(Gate::not(l.0));
+            }
+            gidney_add(&mut c, &r.a, &r.b, None, true);
+            for &l in &r.b {
+                c.push(Gate::not(l.0));
+            }
+            Some(c)
+        }
+        _ => None,
+    }
+}
