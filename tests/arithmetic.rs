@@ -19,6 +19,22 @@ fn build_spec(text: &str, verify: bool) -> Outcome {
     .unwrap_or_else(|e| panic!("{e}\n{text}"))
 }
 
+/// The structural generator's cost (auto may pick a table method at small widths).
+fn structural_cost(text: &str) -> oraculum::Cost {
+    common::tables();
+    let spec = parse_spec("arith.toml", text).unwrap_or_else(|e| panic!("{e}\n{text}"));
+    build(
+        &spec,
+        &BuildOptions {
+            method: Some(oraculum::Method::Structural),
+            verify: None,
+            ..Default::default()
+        },
+    )
+    .unwrap_or_else(|e| panic!("{e}\n{text}"))
+    .cost
+}
+
 fn assert_proven(text: &str) -> Outcome {
     let out = build_spec(text, true);
     match &out.verification {
@@ -158,7 +174,7 @@ fn worked_values() {
 #[test]
 fn toffoli_counts_meet_the_published_formulas() {
     for n in [1usize, 2, 3, 4, 5, 8, 16, 32, 64, 128, 1024] {
-        let t = |text: String| build_spec(&text, false).cost;
+        let t = |text: String| structural_cost(&text);
         let add = t(arith_toml("add", n, ""));
         assert_eq!(add.toffoli, 2 * n - 2, "add n={n}");
         assert!(add.qubits <= 2 * n + 1, "one ancilla at most, n={n}");
@@ -480,15 +496,11 @@ fn outside_values_of_period_finding_weight_and_products() {
 #[test]
 fn weight_and_comparison_counts_against_the_formulas() {
     for n in [1usize, 2, 3, 4, 5, 7, 8, 16, 31, 64, 100, 1024] {
-        let cost = build_spec(&arith_toml("weight", n, ""), false).cost;
+        let cost = structural_cost(&arith_toml("weight", n, ""));
         let pc = n.count_ones() as usize;
         assert_eq!(cost.toffoli, 2 * (n - pc), "weight n={n}");
         for rel in ["<", "<=", ">", ">="] {
-            let c = build_spec(
-                &arith_toml("compare", n, &format!("relation = \"{rel}\"")),
-                false,
-            )
-            .cost;
+            let c = structural_cost(&arith_toml("compare", n, &format!("relation = \"{rel}\"")));
             assert_eq!(c.toffoli, 2 * n - 1, "{rel} n={n}");
         }
     }
@@ -591,4 +603,34 @@ fn sat_route_at_32_and_64_bits() {
     refused(&arith_toml("multiply", 32, ""));
     refused("kind = \"arithmetic\"\nop = \"multiply\"\nconstant = 3\nmodulus = 1000003\n");
     refused("kind = \"arithmetic\"\nop = \"power\"\nconstant = 3\nmodulus = 1000003\nexponent_bits = 4\n");
+}
+
+/// `auto` also runs permutation synthesis of the same map when the registers
+/// make at most 16 lines, and keeps the verified circuit with fewest
+/// Toffolis: never more than the structural generator's.
+#[test]
+fn auto_runs_the_table_methods_on_small_registers() {
+    for text in [
+        "kind = \"arithmetic\"\nop = \"add\"\nconstant = 1\nmodulus = 12\n".to_string(),
+        arith_toml("compare", 3, "relation = \"<=\"\nconstant = 5"),
+        arith_toml("multiply", 2, "constant = 3"),
+    ] {
+        let auto = assert_proven(&text);
+        common::tables();
+        let spec = parse_spec("a.toml", &text).unwrap();
+        let structural = build(
+            &spec,
+            &BuildOptions {
+                method: Some(oraculum::Method::Structural),
+                ..Default::default()
+            },
+        )
+        .unwrap();
+        assert!(auto.cost.toffoli <= structural.cost.toffoli, "{text}");
+        assert!(
+            auto.notes.iter().any(|n| n.contains("transform")),
+            "{:?}",
+            auto.notes
+        );
+    }
 }

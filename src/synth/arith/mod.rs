@@ -28,7 +28,10 @@ mod compare;
 mod modular;
 mod multiply;
 mod power;
+mod table;
 mod weight;
+
+pub use table::{arith_images, TABLE_MAX_LINES};
 
 pub use build::{Bit, Builder};
 
