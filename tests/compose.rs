@@ -742,12 +742,13 @@ fn bad_register_tables_are_refused_at_their_place() {
     let s = oraculum::parse_spec("t.toml", &format!("{head}x = \"y\"\ny = \"x\"\n")).unwrap();
     assert_eq!(s.register_name("x"), "y");
     // The arithmetic registers take own names, the kind's own only.
-    let arith = "kind = \"arithmetic\"\nop = \"less_than\"\nwidth = 4\n[registers]\n";
+    let arith =
+        "kind = \"arithmetic\"\nop = \"compare\"\nrelation = \"<\"\nwidth = 4\n[registers]\n";
     assert!(oraculum::parse_spec(
         "t.toml",
         &format!("{arith}a = \"left\"\nb = \"right\"\ny = \"less\"\n")
     )
     .is_ok());
     let e = oraculum::parse_spec("t.toml", &format!("{arith}cout = \"c\"\n")).unwrap_err();
-    assert_eq!((e.location.line, e.location.column), (5, 1), "{e}");
+    assert_eq!((e.location.line, e.location.column), (6, 1), "{e}");
 }

@@ -37,6 +37,17 @@ pub fn candidates(spec: &Spec, thorough: bool) -> Vec<Method> {
             vec![Method::Transform, Method::TransformBidir, Method::Exact]
         }
         SpecBody::Permutation(_) => vec![Method::Transform, Method::TransformBidir],
+        // Small registers: the same map as a table, by permutation synthesis.
+        SpecBody::Arithmetic(a)
+            if a.layout().sizes().iter().map(|s| s.1).sum::<usize>()
+                <= crate::synth::TABLE_MAX_LINES =>
+        {
+            vec![
+                Method::Structural,
+                Method::Transform,
+                Method::TransformBidir,
+            ]
+        }
         SpecBody::Arithmetic(_) => vec![Method::Structural],
     }
 }

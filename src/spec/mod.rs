@@ -12,13 +12,15 @@ mod layout;
 mod netlist;
 mod raw;
 
+pub use arith::{inverse_mod, MAX_EXPONENT_BITS};
 pub use error::{SpecError, SpecErrorKind};
-pub use layout::permutation_layout;
+pub use layout::{permutation_layout, weight_bits};
 pub use netlist::{netlist_function, DesignIssue, FileReader, SpecLoadError};
 
 use crate::logic::{program, Dag, NodeId, Permutation, PermutationError, TruthTable};
 use crate::netlist::ReadLimits;
 use crate::source::Source;
+pub use num_bigint::BigUint;
 use raw::{RawArithmetic, RawFunction, RawNetlist, RawOracle, RawPermutation};
 use std::ops::Range;
 use toml::Spanned;
@@ -123,7 +125,9 @@ impl FunctionSpec {
     }
 }
 
-/// Arithmetic operations of the spec schema.
+/// Arithmetic operations of the spec schema: a few verbs whose keys combine
+/// (`constant`, `modulus`, `relation`, `carry_out`, `exponent_bits`,
+/// `controlled`).
 #[derive(
     Clone,
     Copy,
@@ -137,22 +141,21 @@ impl FunctionSpec {
 )]
 #[strum(serialize_all = "snake_case")]
 pub enum ArithOp {
-    /// `a, b -> a, (a + b) mod 2^w`.
+    /// `b = a + b`; with `constant`, `a = a + c` in place; with `modulus`,
+    /// mod N for inputs below N.
     Add,
-    /// `a, b -> a, (b - a) mod 2^w`.
-    Sub,
-    /// `a -> (a + constant) mod 2^w`.
-    AddConst,
-    /// `a, b, y -> a, b, y XOR (a < b)`.
-    LessThan,
-    /// `a, y -> a, y XOR (a < constant)`.
-    LessThanConst,
-    /// `a, y -> a, y XOR (a == constant)`.
-    EqualConst,
-    /// `a -> (a + 1) mod modulus` below the modulus.
-    IncrementMod,
-    /// `a, b -> a, (a + b) mod modulus` for `a, b < modulus`.
-    AddMod,
+    /// `b = b - a`; with `constant`, `a = a - c` in place; with `modulus`,
+    /// mod N for inputs below N.
+    Subtract,
+    /// `y ^= (a relation b)` or `y ^= (a relation c)`.
+    Compare,
+    /// `p ^= a * b` (`p[2w]`), `p ^= a * c` (`p[w + bits(c)]`), or with
+    /// `constant` and `modulus`, `x -> c * x mod N` in place.
+    Multiply,
+    /// `e, x -> e, x * c^e mod N`.
+    Power,
+    /// `y ^= popcount(a)`, `y[bits(w)]`.
+    Weight,
     /// `address, data -> address, data XOR table[address]`.
     Lookup,
 }
@@ -169,25 +172,98 @@ impl ArithOp {
     }
 }
 
+/// The relation of `op = "compare"`.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Hash, strum::EnumIter)]
+pub enum Relation {
+    /// `<`
+    Less,
+    /// `<=`
+    LessEq,
+    /// `>`
+    Greater,
+    /// `>=`
+    GreaterEq,
+    /// `==`
+    Equal,
+    /// `!=`
+    NotEqual,
+}
+
+impl Relation {
+    /// Every relation.
+    pub fn all() -> impl Iterator<Item = Relation> {
+        <Relation as strum::IntoEnumIterator>::iter()
+    }
+
+    /// As written in a spec.
+    pub fn symbol(self) -> &'static str {
+        match self {
+            Relation::Less => "<",
+            Relation::LessEq => "<=",
+            Relation::Greater => ">",
+            Relation::GreaterEq => ">=",
+            Relation::Equal => "==",
+            Relation::NotEqual => "!=",
+        }
+    }
+
+    /// The relation written `text`.
+    pub fn parse(text: &str) -> Option<Relation> {
+        Relation::all().find(|r| r.symbol() == text)
+    }
+}
+
 /// An arithmetic spec.
 #[derive(Clone, Debug, PartialEq, Eq)]
 pub struct ArithSpec {
     /// The operation.
     pub op: ArithOp,
-    /// Register width in bits (the address width for `lookup`).
+    /// Register width in bits: of `a` (and `b`), of `x` for the modular
+    /// multiply and `power`, the address width for `lookup`.
     pub width: usize,
-    /// `constant` for the `_const` ops.
-    pub constant: Option<u64>,
-    /// `modulus` for the `_mod` ops.
-    pub modulus: Option<u64>,
+    /// `relation` of `compare`.
+    pub relation: Option<Relation>,
+    /// `constant`, of any width.
+    pub constant: Option<BigUint>,
+    /// `modulus`, of any width.
+    pub modulus: Option<BigUint>,
     /// `carry_out` for `add`.
     pub carry_out: bool,
+    /// `exponent_bits` of `power` (0 for every other op).
+    pub exponent_bits: usize,
     /// `controlled`: a `ctrl[1]` register gates the whole map.
     pub controlled: bool,
     /// `data` words for `lookup`, one per address.
     pub data: Vec<u64>,
     /// `data_width` for `lookup`.
     pub data_width: usize,
+}
+
+impl ArithSpec {
+    /// Whether the map is promised only on register values below the
+    /// modulus (`add`/`subtract` with `modulus`, the modular multiply, `power`).
+    pub fn is_modular(&self) -> bool {
+        self.modulus.is_some()
+    }
+
+    /// The registers whose values must lie below the modulus (the domain
+    /// promise), by name.
+    pub fn below_modulus(&self) -> &'static [&'static str] {
+        if self.modulus.is_none() {
+            return &[];
+        }
+        match (self.op, self.constant.is_some()) {
+            (ArithOp::Add | ArithOp::Subtract, false) => &["a", "b"],
+            (ArithOp::Add | ArithOp::Subtract, true) => &["a"],
+            (ArithOp::Multiply | ArithOp::Power, _) => &["x"],
+            _ => &[],
+        }
+    }
+}
+
+/// The bits of `v`: 0 for 0.
+pub fn bits_of(v: &BigUint) -> usize {
+    v.bits() as usize
 }
 
 /// Most nodes the expressions of one spec may have, definitions included
@@ -328,7 +404,9 @@ pub fn parse_spec_with(
         }
         _ => {
             let raw: RawArithmetic = serde::Deserialize::deserialize(de).map_err(toml_error)?;
-            let form = v.form(&raw.oracle, None)?;
+            // A comparison has one output bit, so it may be a phase oracle.
+            let compare = raw.op.as_ref().is_some_and(|o| o.get_ref() == "compare");
+            let form = v.form(&raw.oracle, compare.then_some(1))?;
             let mut spec = Spec {
                 name: raw.name.as_ref().map(|n| n.get_ref().clone()),
                 body: SpecBody::Arithmetic(v.arithmetic(&raw)?),
@@ -515,18 +593,17 @@ fan = "hot & !night | humid ^ hot"
     fn constants_past_the_toml_integer_range() {
         let s = parse_spec(
             "t.toml",
-            "kind = \"arithmetic\"\nop = \"add_const\"\nwidth = 64\nconstant = \"0xffff_ffff_ffff_fffe\"\n",
+            "kind = \"arithmetic\"\nop = \"add\"\nwidth = 64\nconstant = \"0xffff_ffff_ffff_fffe\"\n",
         )
         .unwrap();
         let SpecBody::Arithmetic(a) = s.body else {
             panic!("arithmetic")
         };
-        assert_eq!(a.constant, Some(u64::MAX - 1));
-        let e =
-            err("kind = \"arithmetic\"\nop = \"add_const\"\nwidth = 8\nconstant = \"twelve\"\n");
+        assert_eq!(a.constant, Some(BigUint::from(u64::MAX - 1)));
+        let e = err("kind = \"arithmetic\"\nop = \"add\"\nwidth = 8\nconstant = \"twelve\"\n");
         assert_eq!(at(&e), (4, 12), "{e}");
         assert_eq!(e.kind, SpecErrorKind::NotANumber("constant"));
-        let e = err("kind = \"arithmetic\"\nop = \"add_const\"\nwidth = 8\nconstant = 300\n");
+        let e = err("kind = \"arithmetic\"\nop = \"add\"\nwidth = 8\nconstant = 300\n");
         assert!(
             matches!(e.kind, SpecErrorKind::DoesNotFit { bits: 8, .. }),
             "{e}"

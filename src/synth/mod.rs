@@ -19,7 +19,9 @@ mod transform;
 
 pub use arith::gidney::{gidney_add, gidney_ands};
 pub use arith::lookup::unary_lookup;
-pub use arith::{arith_lines, arithmetic, arithmetic_measured, Registers};
+pub use arith::{
+    arith_images, arith_lines, arithmetic, arithmetic_measured, Registers, TABLE_MAX_LINES,
+};
 pub use bennett::{bennett, bennett_counts, bennett_xag, xag_network, PEBBLE_SAT_MAX_NODES};
 pub use esop::{
     esop_circuit, esop_counted, esop_of, minimize_tables, EsopWork, EXORLINK_MAX_TERMS,
@@ -36,6 +38,7 @@ pub use transform::{
 
 use crate::circuit::Circuit;
 use crate::limit::{Limit, Stop};
+use crate::logic::Permutation;
 use crate::progress::Progress;
 use crate::spec::{Spec, SpecBody};
 use std::fmt;
@@ -319,10 +322,30 @@ pub fn synthesize(
             kind: "permutation",
             hint: "use transform, transform-bidir or auto",
         }),
+        (SpecBody::Arithmetic(a), Method::Transform | Method::TransformBidir) => {
+            // The same map as a permutation of the registers' lines.
+            let images = arith_images(a).ok_or(SynthError::NotApplicable {
+                method: method.name(),
+                kind: "arithmetic",
+                hint: "a table of the map takes at most 16 register lines; use structural",
+            })?;
+            let p = Permutation::new(images.len().trailing_zeros() as usize, images)
+                .expect("an arithmetic map is a bijection of its lines");
+            let t = transform_with(&p, method == Method::TransformBidir);
+            let mut c = Circuit::new(arith_lines(a).0);
+            while c.width() < t.width() {
+                c.add_ancilla();
+            }
+            for g in t.gates() {
+                c.push(g.clone());
+            }
+            check_gates(&c, limits)?;
+            Ok(c.into())
+        }
         (SpecBody::Arithmetic(_), m) => Err(SynthError::NotApplicable {
             method: m.name(),
             kind: "arithmetic",
-            hint: "use structural or auto",
+            hint: "use structural, transform, transform-bidir or auto",
         }),
     }
 }
