@@ -12,6 +12,7 @@ mod esop_exact;
 mod exact;
 mod exorlink;
 mod hierarchical;
+mod linear;
 mod network;
 mod pebble;
 mod reed_muller;
@@ -101,6 +102,11 @@ pub enum Method {
     /// Structural generators for arithmetic specs.
     #[strum(message = "arithmetic: ripple-carry (MAJ/UMA) and carry-chain generators, any width")]
     Structural,
+    /// Affine permutations by Gaussian elimination into CNOTs and NOTs.
+    #[strum(
+        message = "permutations that are affine over GF(2) (x -> A x XOR b): Gaussian elimination, CNOTs and NOTs only"
+    )]
+    Linear,
 }
 
 impl Method {
@@ -296,6 +302,15 @@ pub fn synthesize(
             Ok(c.into())
         }
         (SpecBody::Permutation(p), Method::Exact) => exact::permutation(p, limits, progress),
+        (SpecBody::Permutation(p), Method::Linear) => {
+            let c = linear::linear(p).ok_or(SynthError::NotApplicable {
+                method: method.name(),
+                kind: "permutation",
+                hint: "it takes affine permutations (x -> A x XOR b over GF(2)), and this one is not",
+            })?;
+            check_gates(&c, limits)?;
+            Ok(c.into())
+        }
         (SpecBody::Function(f), Method::Exact) => exact::function(f, limits, progress),
         (SpecBody::Function(f), Method::Transform | Method::TransformBidir) => {
             let c = transform_function(f, method == Method::TransformBidir)?;
