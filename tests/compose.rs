@@ -751,3 +751,175 @@ fn bad_register_tables_are_refused_at_their_place() {
     let e = oraculum::parse_spec("t.toml", &format!("{arith}cout = \"c\"\n")).unwrap_err();
     assert_eq!((e.location.line, e.location.column), (5, 1), "{e}");
 }
+
+/// Every basis state of `c`'s free registers (ancillae at 0) against a map
+/// of the test's own, by its own simulator: with `ctrl` at 0 every register
+/// keeps its value, with `ctrl` at 1 `map` gives the registers after.
+/// `free` lists (register, size) without `ctrl`; true when all agree.
+fn controlled_map_holds(
+    c: &oraculum::Circuit,
+    free: &[(&str, usize)],
+    map: &dyn Fn(&[u128]) -> Vec<u128>,
+) -> bool {
+    let bits: usize = free.iter().map(|(_, s)| s).sum();
+    for s in 0..1u128 << (bits + 1) {
+        let mut values = Vec::new();
+        let mut shift = 0;
+        for (_, size) in free {
+            values.push((s >> shift) & ((1 << size) - 1));
+            shift += size;
+        }
+        let ctrl = s >> bits;
+        let mut inputs: Vec<(&str, u128)> =
+            free.iter().map(|(n, _)| *n).zip(values.clone()).collect();
+        inputs.push(("ctrl", ctrl));
+        let out = common::run_registers(c, &inputs);
+        let want = if ctrl == 1 {
+            map(&values)
+        } else {
+            values.clone()
+        };
+        let got: Vec<u128> = free.iter().map(|(n, _)| out[*n]).collect();
+        if got != want || out.get("anc").copied().unwrap_or(0) != 0 || out["ctrl"] != ctrl {
+            return false;
+        }
+    }
+    true
+}
+
+/// `controlled = true` on a truth table (majority of three, 0xe8), an
+/// expression network with definitions, and a permutation (the dice shuffle
+/// [5, 2, 7, 0, 6, 1, 4, 3]), through every method that applies: each
+/// circuit is proven by both routes, and the test's own simulator finds it
+/// the identity with the control at 0 and the map with it at 1 on every
+/// basis state. Every single-fault mutant of one circuit per spec is refuted
+/// exactly when the test's own check finds it wrong, and dropping the control
+/// from one gate is refuted on a state with the control at 0.
+#[test]
+fn controlled_function_and_permutation_specs_are_proven_at_both_controls() {
+    use oraculum::verify::{verify, Route, Verdict, VerifyOptions};
+    common::tables();
+    let majority = "kind = \"function\"\ninputs = [\"a\", \"b\", \"c\"]\noutputs = [\"most\"]\ncontrolled = true\n[table]\nmost = \"0xe8\"\n";
+    let network = "kind = \"function\"\ninputs = [\"a\", \"b\", \"c\", \"d\"]\noutputs = [\"f\", \"g\"]\ncontrolled = true\n[let]\ns = \"a ^ b\"\n[expr]\nf = \"s & c | d\"\ng = \"s & !d\"\n";
+    let shuffle =
+        "kind = \"permutation\"\nwidth = 3\nimages = [5, 2, 7, 0, 6, 1, 4, 3]\ncontrolled = true\n";
+    let maj = |v: &[u128]| {
+        let x = v[0];
+        vec![x, v[1] ^ ((0xe8 >> x) & 1)]
+    };
+    let net = |v: &[u128]| {
+        let b = |j: u32| (v[0] >> j) & 1 == 1;
+        let s = b(0) ^ b(1);
+        let f = (s && b(2)) || b(3);
+        let g = s && !b(3);
+        vec![v[0], v[1] ^ (f as u128 | (g as u128) << 1)]
+    };
+    let images = [5u128, 2, 7, 0, 6, 1, 4, 3];
+    let shuf = |v: &[u128]| vec![images[v[0] as usize]];
+    type Map<'a> = &'a dyn Fn(&[u128]) -> Vec<u128>;
+    type Case<'a> = (&'a str, Vec<(&'a str, usize)>, Map<'a>, &'a [&'a str]);
+    let cases: [Case; 3] = [
+        (
+            majority,
+            vec![("x", 3), ("y", 1)],
+            &maj,
+            &[
+                "reed-muller",
+                "esop",
+                "bennett",
+                "xag",
+                "exact",
+                "transform",
+            ],
+        ),
+        (
+            network,
+            vec![("x", 4), ("y", 2)],
+            &net,
+            &["reed-muller", "esop", "bennett", "xag", "hierarchical"],
+        ),
+        (
+            shuffle,
+            vec![("x", 3)],
+            &shuf,
+            &["transform", "transform-bidir", "exact"],
+        ),
+    ];
+    let sat = VerifyOptions {
+        route: Route::Sat,
+        ..VerifyOptions::default()
+    };
+    for (toml, free, map, methods) in &cases {
+        let spec = oraculum::parse_spec("c.toml", toml).unwrap();
+        assert_eq!(spec.layout().sizes()[0], ("ctrl", 1), "ctrl comes first");
+        for m in *methods {
+            let opts = oraculum::BuildOptions {
+                method: oraculum::Method::from_name(m),
+                verify: Some(VerifyOptions::default()),
+                ..Default::default()
+            };
+            let out = oraculum::pipeline::build(&spec, &opts).unwrap();
+            let c = &out.lowered;
+            assert!(out.verification.is_proven(), "{m}: {:?}", out.verification);
+            assert!(
+                matches!(
+                    verify(c, &spec, &sat).unwrap(),
+                    Verdict::Proven { by: "sat", .. }
+                ),
+                "{m}"
+            );
+            assert!(controlled_map_holds(c, free, *map), "{toml}\n{m}");
+            assert_eq!(c.lines()[0].register, "ctrl");
+            assert!(
+                out.notes
+                    .iter()
+                    .any(|n| n.starts_with("the control costs ")),
+                "{:?}",
+                out.notes
+            );
+        }
+        let opts = oraculum::BuildOptions {
+            method: oraculum::Method::from_name(methods[0]),
+            verify: Some(VerifyOptions::default()),
+            ..Default::default()
+        };
+        let c = oraculum::pipeline::build(&spec, &opts).unwrap().lowered;
+        let mut refuted = 0;
+        for (fault, m) in oraculum::mutate::mutants(&c) {
+            let right = controlled_map_holds(&m, free, *map);
+            let v = verify(&m, &spec, &VerifyOptions::default()).unwrap();
+            let proven = matches!(v, Verdict::Proven { .. });
+            assert_eq!(proven, right, "{}: {toml}", fault.name());
+            refuted += !right as usize;
+        }
+        assert!(refuted > 10, "{refuted}");
+        // The control dropped from the first gate that has it.
+        let k = c
+            .gates()
+            .iter()
+            .position(|g| g.has_control(oraculum::Line(0)))
+            .unwrap();
+        let mut gates = c.gates().to_vec();
+        let cs = gates[k]
+            .controls()
+            .iter()
+            .copied()
+            .filter(|x| x.line != oraculum::Line(0))
+            .collect();
+        gates[k] = oraculum::Gate::new(cs, gates[k].target()).unwrap();
+        let mut m = c.clone();
+        m.set_gates(gates);
+        match verify(&m, &spec, &VerifyOptions::default()).unwrap() {
+            Verdict::Refuted { counterexample } => {
+                // At 1 the mutant is the circuit; only the control at 0 shows it.
+                let ctrl = counterexample.input.iter().find(|r| r.register == "ctrl");
+                assert_eq!(ctrl.unwrap().value, Some(0), "{counterexample:?}");
+            }
+            v => panic!("{v:?}"),
+        }
+        assert!(matches!(
+            verify(&m, &spec, &sat).unwrap(),
+            Verdict::Refuted { .. }
+        ));
+    }
+}

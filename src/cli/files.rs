@@ -84,6 +84,7 @@ fn load_design(path: &Path) -> Result<Spec, Failure> {
         body: SpecBody::Function(f),
         form: OracleForm::Xor,
         registers: Vec::new(),
+        controlled: false,
     })
 }
 
