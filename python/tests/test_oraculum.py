@@ -404,3 +404,26 @@ def test_the_readme_example_runs_as_written(monkeypatch):
     assert ns["spec"]["table"] == {"most": "0xe8"}
     assert ns["rows"] and all("method" in r for r in ns["rows"])
     assert oraculum.verify(vote.qasm(), ns["spec"])["verdict"] == "proven"
+
+
+def test_qasm3_is_the_cli_file_and_verifies(tmp_path):
+    # .qasm3() is the text of `synth --format qasm3` (plain, gate form and
+    # --keep-mct), and verify() proves OpenQASM 3 text as it proves OpenQASM 2.
+    exe = cli()
+    path = tmp_path / "vote.toml"
+    path.write_text(MAJORITY)
+    for extra, kwargs, keep in (
+        ([], {}, False),
+        (["--as-gate", "vote"], {"as_gate": "vote"}, False),
+        (["--keep-mct"], {}, True),
+    ):
+        run = subprocess.run(
+            [exe, "synth", str(path), "--format", "qasm3", *extra],
+            capture_output=True, text=True, check=True,
+        )
+        o = oraculum.synthesize(str(path), **kwargs)
+        text = o.qasm3(keep_mct=keep)
+        assert text == run.stdout
+        assert text.startswith('OPENQASM 3.0;\ninclude "stdgates.inc";\n')
+        assert "qubit[3] x_;" in text
+        assert oraculum.verify(text, MAJORITY)["verdict"] == "proven"
