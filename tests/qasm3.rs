@@ -305,3 +305,164 @@ fn bad_qasm3_is_refused_at_its_place() {
         "{e}"
     );
 }
+
+/// The test's own state-vector run of an OpenQASM 3 program of `qubit`,
+/// `bit`, `h`, `x`, `cx`, `ccx`, `ctrl(k) @ x`, one `gate` definition of
+/// those and a final `measure`: the amplitudes (real: every gate is).
+fn run_program(text: &str) -> (Vec<f64>, std::collections::HashMap<String, (usize, usize)>) {
+    let clean: String = text
+        .lines()
+        .map(|l| l.split("//").next().unwrap())
+        .collect::<Vec<_>>()
+        .join("\n");
+    let g0 = clean.find("\ngate ").unwrap() + 1;
+    let g1 = g0 + clean[g0..].find('}').unwrap() + 1;
+    let head = &clean[g0 + 5..g0 + clean[g0..].find('{').unwrap()];
+    let mut head_words = head.split_whitespace();
+    let gate_name = head_words.next().unwrap().to_string();
+    let args: Vec<String> = head_words
+        .collect::<String>()
+        .split(',')
+        .map(|s| s.trim().to_string())
+        .collect();
+    let body: Vec<String> = clean[g0..g1][clean[g0..g1].find('{').unwrap() + 1..]
+        .trim_end_matches('}')
+        .split(';')
+        .map(|s| s.trim().to_string())
+        .filter(|s| !s.is_empty())
+        .collect();
+    let top: Vec<String> = format!("{}{}", &clean[..g0], &clean[g1..])
+        .split(';')
+        .map(|s| s.trim().to_string())
+        .filter(|s| !s.is_empty())
+        .collect();
+    let mut regs = std::collections::HashMap::new();
+    let mut width = 0;
+    for s in &top {
+        if let Some(rest) = s.strip_prefix("qubit[") {
+            let (n, name) = rest.split_once(']').unwrap();
+            let n: usize = n.parse().unwrap();
+            regs.insert(name.trim().to_string(), (width, n));
+            width += n;
+        }
+    }
+    let mut amp = vec![0.0f64; 1 << width];
+    amp[0] = 1.0;
+    let qubits = |op: &str| -> Vec<usize> {
+        let op = op.trim();
+        match op.split_once('[') {
+            Some((r, i)) => vec![regs[r].0 + i.trim_end_matches(']').parse::<usize>().unwrap()],
+            None => (regs[op].0..regs[op].0 + regs[op].1).collect(),
+        }
+    };
+    fn apply(amp: &mut [f64], gate: &str, q: &[usize]) {
+        let t = *q.last().unwrap();
+        if gate == "h" {
+            let r = std::f64::consts::FRAC_1_SQRT_2;
+            for s in 0..amp.len() {
+                if s >> t & 1 == 0 {
+                    let (a, b) = (amp[s], amp[s | 1 << t]);
+                    amp[s] = r * (a + b);
+                    amp[s | 1 << t] = r * (a - b);
+                }
+            }
+            return;
+        }
+        let controls = &q[..q.len() - 1];
+        for s in 0..amp.len() {
+            if s >> t & 1 == 0 && controls.iter().all(|&c| s >> c & 1 == 1) {
+                amp.swap(s, s | 1 << t);
+            }
+        }
+    }
+    fn gate_of(word: &str) -> &str {
+        match word {
+            "cx" | "ccx" | "x" => "x",
+            w if w.starts_with("ctrl(") => "x",
+            w => w,
+        }
+    }
+    for s in &top {
+        let s = s.replace(" @ x", "@x");
+        let (word, ops) = s.split_once(' ').unwrap_or((&s, ""));
+        match word {
+            "OPENQASM" | "include" => continue,
+            _ if word.starts_with("qubit[") || word.starts_with("bit[") => continue,
+            "result" => continue, // the final measurement reads the state
+            w if w == gate_name => {
+                let lines: Vec<usize> = ops.split(',').flat_map(qubits).collect();
+                for b in &body {
+                    let (bw, bops) = b.split_once(' ').unwrap();
+                    let q: Vec<usize> = bops
+                        .split(',')
+                        .map(|a| lines[args.iter().position(|x| x == a.trim()).unwrap()])
+                        .collect();
+                    apply(&mut amp, gate_of(bw), &q);
+                }
+            }
+            w => {
+                let ops: Vec<Vec<usize>> = ops.split(',').map(qubits).collect();
+                if ops.len() == 1 && ops[0].len() > 1 {
+                    for &q in &ops[0] {
+                        apply(&mut amp, gate_of(w), &[q]);
+                    }
+                } else {
+                    let q: Vec<usize> = ops.into_iter().flatten().collect();
+                    apply(&mut amp, gate_of(w), &q);
+                }
+            }
+        }
+    }
+    (amp, regs)
+}
+
+/// The README's Grover program (docs/grover-vault.qasm): the reference
+/// parser takes it; its oracle gate, cut out and applied alone, is proven
+/// against specs/vault-phase.toml; and the test's own state-vector run of
+/// the whole program ends with y and every ancilla at 0 and measures a
+/// marked combination (a < b for two 2-bit dials) with probability
+/// sin^2(3 theta), sin^2(theta) = 6/16, which is exactly 27/32 = 0.84375
+/// (sin 3t = sin t (3 - 4 sin^2 t); Boyer, Brassard, Hoyer, Tapp 1998), the
+/// figure `synth` reports for one iteration.
+#[test]
+fn the_readme_grover_program_parses_and_finds_the_vault() {
+    let path = common::repo().join("docs/grover-vault.qasm");
+    let program = std::fs::read_to_string(&path).unwrap();
+    reference_parse(std::slice::from_ref(&path));
+    let g0 = program.find("\ngate vault_oracle").unwrap() + 1;
+    let g1 = g0 + program[g0..].find("\n}\n").unwrap() + 3;
+    let alone = format!(
+        "OPENQASM 3.0;\ninclude \"stdgates.inc\";\n{}qubit[4] x_;\nqubit[1] y_;\nqubit[7] anc;\nx y_[0];\nh y_[0];\nvault_oracle x_[0], x_[1], x_[2], x_[3], y_[0], anc[0], anc[1], anc[2], anc[3], anc[4], anc[5], anc[6];\nh y_[0];\nx y_[0];\n",
+        &program[g0..g1]
+    );
+    let c = read3("alone", &alone);
+    let spec = oraculum::parse_spec(
+        "vault-phase.toml",
+        &std::fs::read_to_string(common::repo().join("specs/vault-phase.toml")).unwrap(),
+    )
+    .unwrap();
+    let v = verify(&c, &spec, &VerifyOptions::default()).unwrap();
+    assert!(matches!(v, Verdict::Proven { .. }), "{v:?}");
+    let (amp, regs) = run_program(&program);
+    let (x0, _) = regs["x_"];
+    let mut found = 0.0;
+    for (s, a) in amp.iter().enumerate() {
+        let p = a * a;
+        if p < 1e-12 {
+            continue;
+        }
+        assert_eq!(s >> 4, 0, "y and the ancillae end at 0 (state {s})");
+        let x = (s >> x0) & 15;
+        let (a, b) = (x & 3, x >> 2);
+        if a < b {
+            found += p;
+        }
+    }
+    assert!((found - 27.0 / 32.0).abs() < 1e-9, "{found}");
+    let dir = workspace();
+    let o = run_in(dir.path(), &["synth", "specs/vault-phase.toml", "--json"]);
+    let j: serde_json::Value = serde_json::from_str(&text(&o).0).unwrap();
+    assert_eq!(j["marked"], 6);
+    assert_eq!(j["grover_iterations"], 1);
+    assert!((j["success_probability"].as_f64().unwrap() - found).abs() < 1e-9);
+}
