@@ -499,16 +499,115 @@ fn grover_fields_only_for_predicates_and_unknown_past_the_limit() {
     let o = run_in(dir.path(), &["synth", "specs/greenhouse.toml", "--json"]);
     let j: serde_json::Value = serde_json::from_str(&text(&o).0).unwrap();
     assert!(j.get("marked").is_none(), "{j}");
+    // 64 inputs, past --max-states: counted by model counting. The card
+    // must equal the door code (2^32 pairs) and have odd parity (half of
+    // them): 2^31 marked (by hand).
     let o = run_in(dir.path(), &["synth", "specs/badge-match.toml", "--json"]);
     assert_eq!(o.status.code(), Some(0), "{:?}", text(&o));
     let j: serde_json::Value = serde_json::from_str(&text(&o).0).unwrap();
-    assert_eq!(j["marked"], "unknown", "{j}");
-    assert_eq!(j["grover_iterations"], "unknown");
-    assert_eq!(j["success_probability"], "unknown");
+    assert_eq!(j["marked"], 1u64 << 31, "{j}");
+    let theta = 2f64.powf(-16.5).asin();
+    let k = (std::f64::consts::PI / (4.0 * theta)).floor() as u64;
+    assert_eq!(j["grover_iterations"], k);
+    // A cone past the model counter's node limit (a chain of 20,001
+    // definitions): every figure unknown, found before any clause is built.
+    let mut toml = String::from(
+        "kind = \"function\"\ninputs = [\"a\", \"b\"]\noutputs = [\"f\"]\n[let]\nd0 = \"a\"\n",
+    );
+    for i in 1..=20_001 {
+        let v = if i % 2 == 0 { "a" } else { "b" };
+        toml.push_str(&format!(
+            "d{i} = \"d{} & {v} | !d{} & !{v}\"\n",
+            i - 1,
+            i - 1
+        ));
+    }
+    toml.push_str("[expr]\nf = \"d20001\"\n");
+    let spec = oraculum::parse_spec("chain.toml", &toml).unwrap();
+    assert!(oraculum::verify::count_marked(&spec, 2, &()).is_err());
+    let g = oraculum::pipeline::grover_facts(&spec, 2, &())
+        .unwrap()
+        .unwrap();
+    assert_eq!(g.marked, oraculum::pipeline::Fact::Unknown("unknown"));
+    assert_eq!(
+        g.grover_iterations,
+        oraculum::pipeline::Fact::Unknown("unknown")
+    );
 }
 
-/// A 20-input expression (256 blocks of the verifier's count): the count
-/// against the test's own evaluation of every input.
+/// The 8-bit values of popcount 4 beside 32 inputs the predicate ignores:
+/// 2^40 inputs, past the default --max-states, so the marked inputs are
+/// counted by model counting: 70 * 2^32 (binomial(8, 4) = 70 times every
+/// value of the other bits), with M/N = 70/256 as before, so 1 iteration and
+/// success probability 0.993 (Boyer, Brassard, Hoyer, Tapp 1998; issue 16).
+#[test]
+fn popcount_four_past_the_state_limit_is_counted_by_models() {
+    let names: Vec<String> = (0..40).map(|j| format!("b{j}")).collect();
+    let products: Vec<String> = (0..256usize)
+        .filter(|x| x.count_ones() == 4)
+        .map(|x| {
+            let lits: Vec<String> = (0..8)
+                .map(|j| format!("{}{}", if (x >> j) & 1 == 1 { "" } else { "!" }, names[j]))
+                .collect();
+            format!("({})", lits.join(" & "))
+        })
+        .collect();
+    let toml = format!(
+        "kind = \"function\"\ninputs = [{}]\noutputs = [\"four\"]\n[expr]\nfour = \"{}\"\n",
+        names
+            .iter()
+            .map(|n| format!("\"{n}\""))
+            .collect::<Vec<_>>()
+            .join(", "),
+        products.join(" | ")
+    );
+    let spec = oraculum::parse_spec("p40.toml", &toml).unwrap();
+    let g = oraculum::pipeline::grover_facts(&spec, oraculum::verify::DEFAULT_MAX_STATES, &())
+        .unwrap()
+        .unwrap();
+    use oraculum::pipeline::Fact;
+    assert_eq!(g.marked, Fact::Known(70 << 32));
+    assert_eq!(g.input_bits, 40);
+    assert_eq!(g.grover_iterations, Fact::Known(1));
+    let Fact::Known(p) = g.success_probability else {
+        panic!("known")
+    };
+    assert_eq!((p * 1000.0).floor(), 993.0, "{p}");
+}
+
+/// Random predicates of 10 inputs beside 26 unused ones (2^36 inputs, past
+/// the default --max-states): the model count is the direct enumeration's
+/// count times 2^26.
+#[test]
+fn model_counts_of_random_predicates_match_enumeration() {
+    use proptest::strategy::{Strategy, ValueTree};
+    let mut runner = proptest::test_runner::TestRunner::deterministic();
+    let names = common::input_names(36);
+    for _ in 0..40 {
+        let e = common::arb_expr(10)
+            .new_tree(&mut runner)
+            .unwrap()
+            .current();
+        let toml = format!(
+            "kind = \"function\"\ninputs = [{}]\noutputs = [\"f\"]\n[expr]\nf = \"{}\"\n",
+            names
+                .iter()
+                .map(|n| format!("\"{n}\""))
+                .collect::<Vec<_>>()
+                .join(", "),
+            e.render(&names[..10])
+        );
+        let spec = oraculum::parse_spec("r.toml", &toml).unwrap();
+        let want = (0..1u64 << 10).filter(|&x| e.eval(x)).count() as u64;
+        let got = oraculum::verify::count_marked(&spec, oraculum::verify::DEFAULT_MAX_STATES, &())
+            .unwrap();
+        assert_eq!(got, Some(want << 26), "{toml}");
+    }
+}
+
+/// A 20-input expression (256 blocks of the verifier's count), and the
+/// model count one state past the limit: both against the test's own
+/// evaluation of every input.
 #[test]
 fn a_wide_count_matches_direct_enumeration() {
     use proptest::strategy::{Strategy, ValueTree};
@@ -532,8 +631,9 @@ fn a_wide_count_matches_direct_enumeration() {
         let want = (0..1u64 << 20).filter(|&x| e.eval(x)).count() as u64;
         let got = oraculum::verify::count_marked(&spec, 1 << 20, &()).unwrap();
         assert_eq!(got, Some(want), "{toml}");
-        // One state short of the inputs: refused, nothing counted.
-        assert!(oraculum::verify::count_marked(&spec, (1 << 20) - 1, &()).is_err());
+        // One state short of the inputs: counted by model counting, alike.
+        let models = oraculum::verify::count_marked(&spec, (1 << 20) - 1, &()).unwrap();
+        assert_eq!(models, Some(want), "{toml}");
     }
 }
 
