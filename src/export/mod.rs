@@ -1,9 +1,11 @@
-//! Writers and readers: OpenQASM 2 (both ways), a plain text listing, drawings and the JSON reports.
+//! Writers and readers: OpenQASM 2 and 3 (both ways), a plain text listing, drawings and the JSON reports.
 
 mod draw;
 mod gatedef;
 pub mod json;
 mod qasm2;
+mod qasm3;
+mod qasm3_read;
 mod text;
 
 pub use draw::{draw_svg, draw_text};
@@ -12,4 +14,6 @@ pub use qasm2::{
     read_qasm, read_qasm_with, write_qasm, QasmHeader, ReadError, ReadLimits, WriteError,
     DEFAULT_MAX_GATES,
 };
+pub use qasm3::{qasm3_register_name, write_qasm3, Qasm3Options};
+pub use qasm3_read::{is_qasm3, read_circuit_with, read_qasm3_with};
 pub use text::listing;

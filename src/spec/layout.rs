@@ -6,13 +6,20 @@ use crate::circuit::layout::{Layout, Register, CARRY, CONTROL, INPUTS, OUTPUTS};
 use crate::circuit::Role;
 
 impl Spec {
-    /// The registers of a circuit for this spec (ancillae excluded).
+    /// The registers of a circuit for this spec (ancillae excluded); a
+    /// controlled spec's `ctrl[1]` first.
     pub fn layout(&self) -> Layout {
-        match &self.body {
+        let mut layout = match &self.body {
             SpecBody::Function(f) => f.layout(),
             SpecBody::Permutation(p) => permutation_layout(p.width()),
-            SpecBody::Arithmetic(a) => a.layout(),
+            SpecBody::Arithmetic(a) => return a.layout(),
+        };
+        if self.controlled {
+            layout
+                .0
+                .insert(0, Register::numbered(CONTROL, Role::Input, 1));
         }
+        layout
     }
 }
 

@@ -38,6 +38,9 @@ pub struct Spec {
     /// for the files written and read; the library works on the standard
     /// names (`x`, `y`, `anc`, `a`, ...) throughout.
     pub registers: Vec<(String, String)>,
+    /// `controlled = true`: `ctrl[1]` first, the map applies where it is 1
+    /// (arithmetic: also [`ArithSpec::controlled`]; other kinds: [`crate::synth::control`]).
+    pub controlled: bool,
 }
 
 impl Spec {
@@ -382,6 +385,7 @@ pub fn parse_spec_with(
                 body: SpecBody::Function(v.function(&raw)?),
                 form,
                 registers: Vec::new(),
+                controlled: raw.controlled.is_some_and(|c| c.into_inner()),
             };
             spec.registers = v.registers(&raw.registers, &spec)?;
             Ok(spec)
@@ -394,6 +398,7 @@ pub fn parse_spec_with(
                 body: SpecBody::Permutation(v.permutation(&raw)?),
                 form,
                 registers: Vec::new(),
+                controlled: raw.controlled.is_some_and(|c| c.into_inner()),
             };
             spec.registers = v.registers(&raw.registers, &spec)?;
             Ok(spec)
@@ -407,11 +412,14 @@ pub fn parse_spec_with(
             // A comparison has one output bit, so it may be a phase oracle.
             let compare = raw.op.as_ref().is_some_and(|o| o.get_ref() == "compare");
             let form = v.form(&raw.oracle, compare.then_some(1))?;
+            let arith = v.arithmetic(&raw)?;
+            let controlled = arith.controlled;
             let mut spec = Spec {
                 name: raw.name.as_ref().map(|n| n.get_ref().clone()),
-                body: SpecBody::Arithmetic(v.arithmetic(&raw)?),
+                body: SpecBody::Arithmetic(arith),
                 form,
                 registers: Vec::new(),
+                controlled,
             };
             spec.registers = v.registers(&raw.registers, &spec)?;
             Ok(spec)

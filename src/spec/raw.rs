@@ -28,6 +28,8 @@ pub struct RawFunction {
     pub oracle: Option<Spanned<RawOracle>>,
     /// `[registers]`: own names for the standard registers.
     pub registers: Option<Section>,
+    /// `controlled = true`: a `ctrl[1]` register gates the whole map.
+    pub controlled: Option<Spanned<bool>>,
     pub inputs: Option<Names>,
     pub outputs: Option<Names>,
     pub table: Option<Section>,
@@ -45,6 +47,8 @@ pub struct RawPermutation {
     pub oracle: Option<Spanned<RawOracle>>,
     /// `[registers]`: own names for the standard registers.
     pub registers: Option<Section>,
+    /// `controlled = true`: a `ctrl[1]` register gates the whole map.
+    pub controlled: Option<Spanned<bool>>,
     pub width: Option<Spanned<i64>>,
     pub images: Option<Spanned<Vec<Spanned<i64>>>>,
 }
@@ -79,6 +83,8 @@ pub struct RawNetlist {
     pub oracle: Option<Spanned<RawOracle>>,
     pub file: Option<Spanned<String>>,
     pub outputs: Option<Names>,
+    /// `controlled = true`: a `ctrl[1]` register gates the whole map.
+    pub controlled: Option<Spanned<bool>>,
     /// `[registers]`: own names for the standard registers.
     pub registers: Option<Section>,
 }

@@ -7,6 +7,7 @@
 mod arith;
 mod bennett;
 mod checkpoints;
+pub mod control;
 mod esop;
 mod esop_exact;
 mod exact;
@@ -263,8 +264,40 @@ pub fn synthesize_in(
 }
 
 /// Synthesizes a circuit of MCT gates (not yet lowered) for `spec` with one
-/// method, reporting long searches to `progress`.
+/// method, reporting long searches to `progress`. A controlled function or
+/// permutation spec is synthesized without its control, within one qubit
+/// less, and the control is added to the effect gates ([`control`]).
 pub fn synthesize(
+    spec: &Spec,
+    method: Method,
+    limits: &SynthLimits,
+    progress: &dyn Progress,
+) -> Result<Synthesis, SynthError> {
+    if !spec.controlled || matches!(spec.body, SpecBody::Arithmetic(_)) {
+        return synthesize_plain(spec, method, limits, progress);
+    }
+    let inner = SynthLimits {
+        max_qubits: limits.max_qubits.map(|q| q.saturating_sub(1)),
+        ..*limits
+    };
+    let mut s = synthesize_plain(spec, method, &inner, progress).map_err(|e| match e {
+        SynthError::Budget { budget, needed } => SynthError::Budget {
+            budget: budget + 1,
+            needed: needed + 1,
+        },
+        e => e,
+    })?;
+    let k = control::add_control(&s.circuit);
+    s.notes.push(format!(
+        "controlled: {} gate(s) take the control; {} compute/uncompute gate(s) on ancillae need none",
+        k.controlled, k.left
+    ));
+    s.circuit = k.circuit;
+    Ok(s)
+}
+
+/// [`synthesize`] of the spec's map without its control.
+fn synthesize_plain(
     spec: &Spec,
     method: Method,
     limits: &SynthLimits,

@@ -48,7 +48,7 @@ pub(super) fn verify_words(
     first: u64,
     end: u64,
 ) -> Result<Verdict, VerifyError> {
-    let layout = spec.layout().sizes();
+    let layout = super::bind::expected_registers(spec);
     let binding = bind(circuit, &layout)?;
     if let Some(problem) = super::bind::form_mismatch(circuit, spec) {
         return Ok(Verdict::form_refuted(problem));
@@ -111,6 +111,7 @@ pub(super) fn verify_words(
         .map_err(|e| VerifyError::Binding(e.to_string()))?;
     }
     let checker = Checker {
+        controlled: super::bind::outer_control(spec),
         circuit,
         width: circuit.width(),
         program,
@@ -182,6 +183,9 @@ struct Work {
 }
 
 struct Checker<'a> {
+    /// A controlled function or permutation: `ctrl` is the last free line,
+    /// and the map applies where it is 1.
+    controlled: bool,
     circuit: &'a Circuit,
     width: usize,
     program: GateProgram,
@@ -249,24 +253,28 @@ impl Checker<'_> {
                     }
                     out.push(row);
                 }
+                self.blend_control(inputs, out);
                 care
             }
             Model::Permutation { images } => {
                 let out = expected;
                 out.clear();
-                out.resize(inputs.len(), [0; W]);
+                let lines = inputs.len() - self.controlled as usize;
+                out.resize(lines, [0; W]);
+                let mask = (images.len() - 1) as u64;
                 for i in 0..W {
                     for k in 0..64u64 {
                         let s = (base + i as u64) * 64 + k;
                         if s >= self.states {
                             break;
                         }
-                        let img = images[s as usize];
+                        let img = images[(s & mask) as usize];
                         for (j, o) in out.iter_mut().enumerate() {
                             o[i] |= ((img >> j) & 1) << k;
                         }
                     }
                 }
+                self.blend_control(inputs, out);
                 care
             }
             Model::Arithmetic { spec, layout } => {
@@ -277,6 +285,22 @@ impl Checker<'_> {
                 care
             }
         }
+    }
+
+    /// For a controlled spec (`ctrl` the last free line, absent from `out`
+    /// so far): the map where `ctrl` is 1, the input where it is 0, and
+    /// `ctrl` itself unchanged.
+    fn blend_control(&self, inputs: &[[u64; W]], out: &mut Vec<[u64; W]>) {
+        if !self.controlled {
+            return;
+        }
+        let ctrl = inputs[inputs.len() - 1];
+        for (o, x) in out.iter_mut().zip(inputs) {
+            for i in 0..W {
+                o[i] = (o[i] & ctrl[i]) | (x[i] & !ctrl[i]);
+            }
+        }
+        out.push(ctrl);
     }
 
     /// The arithmetic reference one state at a time, for the ops the

@@ -396,6 +396,19 @@ fn expected(cnf: &mut Cnf, spec: &Spec, free: &[i32]) -> Result<(Vec<i32>, Vec<i
         }
         SpecBody::Arithmetic(a) => arithmetic(cnf, a, free, &mut domain)?,
     };
+    if !super::bind::outer_control(spec) {
+        return Ok((out, domain));
+    }
+    // A controlled function or permutation: `ctrl` is the last free line;
+    // the map where it is 1, every line as it was where it is 0.
+    let ctrl = free[free.len() - 1];
+    let mut out: Vec<i32> = out
+        .iter()
+        .zip(free)
+        .map(|(&f, &x)| cnf.mux(ctrl, f, x))
+        .collect();
+    out.truncate(free.len() - 1);
+    out.push(ctrl);
     Ok((out, domain))
 }
 
@@ -575,8 +588,8 @@ pub fn sat_equivalence(
     budget: Duration,
     stop: &dyn Progress,
 ) -> Result<SatOutcome, SatError> {
-    let binding: Binding =
-        bind(circuit, &spec.layout().sizes()).map_err(|e| SatError::Binding(e.to_string()))?;
+    let binding: Binding = bind(circuit, &super::bind::expected_registers(spec))
+        .map_err(|e| SatError::Binding(e.to_string()))?;
     let mut cnf = Cnf::new(budget, stop);
     let free: Vec<i32> = binding.free.iter().map(|_| cnf.var()).collect();
     let (want, domain) = expected(&mut cnf, spec, &free)?;
@@ -776,6 +789,22 @@ fn words_of(vars: usize, f: impl Fn(u64) -> bool) -> Vec<u64> {
 /// The spec's expected value of every free line, by plain bit arithmetic;
 /// `None` outside the op's domain.
 fn reference_bits(spec: &Spec, free: &[bool]) -> Option<Vec<bool>> {
+    if super::bind::outer_control(spec) {
+        // `ctrl` last: nothing changes where it is 0.
+        let (ctrl, rest) = free.split_last()?;
+        if !ctrl {
+            return Some(free.to_vec());
+        }
+        let mut out = reference_plain(spec, rest)?;
+        out.truncate(rest.len());
+        out.push(true);
+        return Some(out);
+    }
+    reference_plain(spec, free)
+}
+
+/// [`reference_bits`] of the map without its control.
+fn reference_plain(spec: &Spec, free: &[bool]) -> Option<Vec<bool>> {
     match &spec.body {
         SpecBody::Function(f) => {
             let n = f.inputs.len();
