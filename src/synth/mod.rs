@@ -17,7 +17,9 @@ mod pebble;
 mod reed_muller;
 mod transform;
 
-pub use arith::{arith_images, arith_lines, arithmetic, Registers, TABLE_MAX_LINES};
+pub use arith::{
+    arith_images, arith_lines, arithmetic, arithmetic_tally, Registers, Tally, TABLE_MAX_LINES,
+};
 pub use bennett::{bennett, bennett_counts, bennett_xag, xag_network, PEBBLE_SAT_MAX_NODES};
 pub use esop::{
     esop_circuit, esop_counted, esop_of, minimize_tables, EsopWork, EXORLINK_MAX_TERMS,

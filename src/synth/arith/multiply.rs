@@ -21,6 +21,7 @@
 //!   chains of controlled modular adders: about `2n * 9n = 18n^2` Toffolis
 //!   (measured), against the `O(n^2)` of the published constructions.
 
+use super::build::Mark;
 use super::modular::add_const_mod;
 use super::{add_in_place, Bit, Builder};
 use crate::circuit::{Gate, Line};
@@ -82,7 +83,7 @@ pub(super) fn multiply_const(
 
 /// `p ^= t` under `ctrl`, then undoes the gates since `start` (which built `t`)
 /// and frees `t`.
-fn copy_out(b: &mut Builder, start: usize, t: &[Line], p: &[Line], ctrl: Option<Line>) {
+fn copy_out(b: &mut Builder, start: Mark, t: &[Line], p: &[Line], ctrl: Option<Line>) {
     let end = b.mark();
     b.set_ctrl(ctrl);
     for (&s, &d) in t.iter().zip(p) {
