@@ -101,3 +101,23 @@ fn keys_of_the_schema_are_checked_where_they_are() {
         &["'constant' does not apply to op 'weight'"],
     );
 }
+
+#[test]
+fn cost_of_a_spec_counts_by_streaming() {
+    let dir = workspace();
+    std::fs::write(
+        dir.path().join("p.toml"),
+        "kind = \"arithmetic\"\nop = \"power\"\nconstant = 7\nmodulus = 15\nexponent_bits = 4\n",
+    )
+    .unwrap();
+    let o = run_in(dir.path(), &["cost", "p.toml", "--json"]);
+    let (out, err) = text(&o);
+    assert_eq!(o.status.code(), Some(0), "{err}");
+    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    assert!(v["toffoli_at_most"].as_u64().unwrap() > 0, "{out}");
+    assert!(v["qubits"].as_u64().unwrap() >= 8, "{out}");
+    // A function spec is not counted this way.
+    let o = run_in(dir.path(), &["cost", "specs/greenhouse.toml"]);
+    assert_eq!(o.status.code(), Some(2), "{:?}", text(&o));
+    assert!(text(&o).1.contains("arithmetic specs only"));
+}

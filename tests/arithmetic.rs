@@ -634,3 +634,62 @@ fn auto_runs_the_table_methods_on_small_registers() {
         );
     }
 }
+
+/// The streaming count (`oraculum cost SPEC`) keeps no gates, yet finds the
+/// same gates by number of controls as the generator's circuit, its lines,
+/// and a Toffoli bound (lowering gate by gate, `2k - 3` for `k >= 3`
+/// controls, Barenco et al. 1995) that the built circuit (after the
+/// pipeline's pair cancelling) meets.
+#[test]
+fn the_streaming_count_matches_the_built_circuit() {
+    let texts = [
+        arith_toml("add", 9, "controlled = true\ncarry_out = true"),
+        arith_toml("subtract", 7, "constant = 5"),
+        arith_toml("compare", 6, "relation = \"!=\"\ncontrolled = true"),
+        arith_toml("compare", 9, "relation = \"<=\"\nconstant = 77"),
+        arith_toml("multiply", 5, "controlled = true"),
+        arith_toml("multiply", 6, "constant = 45"),
+        arith_toml("weight", 13, "controlled = true"),
+        "kind = \"arithmetic\"\nop = \"subtract\"\nmodulus = 45\n".into(),
+        "kind = \"arithmetic\"\nop = \"add\"\nconstant = 1\nmodulus = 45\ncontrolled = true\n"
+            .into(),
+        "kind = \"arithmetic\"\nop = \"multiply\"\nconstant = 7\nmodulus = 45\ncontrolled = true\n"
+            .into(),
+        "kind = \"arithmetic\"\nop = \"power\"\nconstant = 7\nmodulus = 1003\nexponent_bits = 5\n"
+            .into(),
+    ];
+    for text in texts {
+        common::tables();
+        let spec = parse_spec("s.toml", &text).unwrap();
+        let oraculum::SpecBody::Arithmetic(a) = &spec.body else {
+            panic!()
+        };
+        let (t, lines) = oraculum::synth::arithmetic_tally(a);
+        let out = build(
+            &spec,
+            &BuildOptions {
+                method: Some(oraculum::Method::Structural),
+                verify: None,
+                ..Default::default()
+            },
+        )
+        .unwrap();
+        let raw = oraculum::synth::arithmetic(a);
+        let mut by = [0u64; 4];
+        let mut bound = 0u64;
+        for g in raw.gates() {
+            let k = g.controls().len();
+            by[k.min(3)] += 1;
+            bound += if k >= 2 { 2 * k as u64 - 3 } else { 0 };
+        }
+        assert_eq!(t.gates, raw.gates().len() as u64, "{text}");
+        assert_eq!(t.by_controls, by, "{text}");
+        assert_eq!(t.toffoli, bound, "{text}");
+        assert!(t.toffoli >= out.cost.toffoli as u64, "{text}");
+        assert_eq!(
+            lines + t.max_controls.saturating_sub(2),
+            out.lowered.width(),
+            "{text}"
+        );
+    }
+}

@@ -445,3 +445,35 @@ def test_qasm3_is_the_cli_file_and_verifies(tmp_path):
         assert text.startswith('OPENQASM 3.0;\ninclude "stdgates.inc";\n')
         assert "qubit[3] x_;" in text
         assert oraculum.verify(text, MAJORITY)["verdict"] == "proven"
+
+
+def test_power_of_period_finding_cycles_with_order_four():
+    # 7^e mod 15 for e = 0..15 is 1, 7, 4, 13, 1, ... (common practice: the
+    # textbook order-4 example of period finding).
+    o = oraculum.synthesize(
+        {
+            "kind": "arithmetic",
+            "op": "power",
+            "constant": 7,
+            "modulus": 15,
+            "exponent_bits": 4,
+        }
+    )
+    assert o.verified
+    q = o.qasm()
+    for e in range(16):
+        out = simulate(q, {"e": e, "x": 1})
+        assert out["x"] == [1, 7, 4, 13][e % 4]
+        assert out["e"] == e
+
+
+def test_compare_with_a_relation_and_the_old_name_refused():
+    o = oraculum.synthesize(
+        {"kind": "arithmetic", "op": "compare", "relation": ">=", "width": 4, "constant": 11}
+    )
+    assert o.verified
+    q = o.qasm()
+    for a in range(16):
+        assert simulate(q, {"a": a})["y"] == int(a >= 11)
+    with pytest.raises(oraculum.SpecError, match="compare"):
+        oraculum.synthesize({"kind": "arithmetic", "op": "less_than", "width": 4})

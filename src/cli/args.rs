@@ -129,9 +129,10 @@ pub enum Command {
         #[arg(long)]
         json: bool,
     },
-    /// Print the cost report of an OpenQASM 2 or 3 circuit.
+    /// Print the cost report of an OpenQASM 2 or 3 circuit, or count the gates
+    /// of an arithmetic spec's structural circuit by streaming (a `.toml` file).
     Cost {
-        /// The circuit (OpenQASM 2 or 3 with x, cx, ccx).
+        /// The circuit (OpenQASM 2 or 3 with x, cx, ccx), or an arithmetic spec (.toml).
         circuit: PathBuf,
         /// Print the report as one JSON object.
         #[arg(long)]

@@ -8,11 +8,152 @@
 use super::error::SpecErrorKind;
 use super::raw::{Number, RawArithmetic};
 use super::MAX_ARITH_WIDTH;
-use super::{bits_of, ArithOp, ArithSpec, BigUint, Relation, SpecError, Validator};
+use super::{BigUint, SpecError, Validator};
 use num_integer::Integer;
 use num_traits::{One, Zero};
 use std::ops::Range;
 use toml::Spanned;
+
+/// Arithmetic operations of the spec schema: a few verbs whose keys combine
+/// (`constant`, `modulus`, `relation`, `carry_out`, `exponent_bits`,
+/// `controlled`).
+#[derive(
+    Clone,
+    Copy,
+    Debug,
+    PartialEq,
+    Eq,
+    Hash,
+    strum::EnumIter,
+    strum::IntoStaticStr,
+    strum::EnumString,
+)]
+#[strum(serialize_all = "snake_case")]
+pub enum ArithOp {
+    /// `b = a + b`; with `constant`, `a = a + c` in place; with `modulus`,
+    /// mod N for inputs below N.
+    Add,
+    /// `b = b - a`; with `constant`, `a = a - c` in place; with `modulus`,
+    /// mod N for inputs below N.
+    Subtract,
+    /// `y ^= (a relation b)` or `y ^= (a relation c)`.
+    Compare,
+    /// `p ^= a * b` (`p[2w]`), `p ^= a * c` (`p[w + bits(c)]`), or with
+    /// `constant` and `modulus`, `x -> c * x mod N` in place.
+    Multiply,
+    /// `e, x -> e, x * c^e mod N`.
+    Power,
+    /// `y ^= popcount(a)`, `y[bits(w)]`.
+    Weight,
+    /// `address, data -> address, data XOR table[address]`.
+    Lookup,
+}
+
+impl ArithOp {
+    /// Every op.
+    pub fn all() -> impl Iterator<Item = ArithOp> {
+        <ArithOp as strum::IntoEnumIterator>::iter()
+    }
+
+    /// The spec name.
+    pub fn name(self) -> &'static str {
+        self.into()
+    }
+}
+
+/// The relation of `op = "compare"`.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Hash, strum::EnumIter)]
+pub enum Relation {
+    /// `<`
+    Less,
+    /// `<=`
+    LessEq,
+    /// `>`
+    Greater,
+    /// `>=`
+    GreaterEq,
+    /// `==`
+    Equal,
+    /// `!=`
+    NotEqual,
+}
+
+impl Relation {
+    /// Every relation.
+    pub fn all() -> impl Iterator<Item = Relation> {
+        <Relation as strum::IntoEnumIterator>::iter()
+    }
+
+    /// As written in a spec.
+    pub fn symbol(self) -> &'static str {
+        match self {
+            Relation::Less => "<",
+            Relation::LessEq => "<=",
+            Relation::Greater => ">",
+            Relation::GreaterEq => ">=",
+            Relation::Equal => "==",
+            Relation::NotEqual => "!=",
+        }
+    }
+
+    /// The relation written `text`.
+    pub fn parse(text: &str) -> Option<Relation> {
+        Relation::all().find(|r| r.symbol() == text)
+    }
+}
+
+/// An arithmetic spec.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct ArithSpec {
+    /// The operation.
+    pub op: ArithOp,
+    /// Register width in bits: of `a` (and `b`), of `x` for the modular
+    /// multiply and `power`, the address width for `lookup`.
+    pub width: usize,
+    /// `relation` of `compare`.
+    pub relation: Option<Relation>,
+    /// `constant`, of any width.
+    pub constant: Option<BigUint>,
+    /// `modulus`, of any width.
+    pub modulus: Option<BigUint>,
+    /// `carry_out` for `add`.
+    pub carry_out: bool,
+    /// `exponent_bits` of `power` (0 for every other op).
+    pub exponent_bits: usize,
+    /// `controlled`: a `ctrl[1]` register gates the whole map.
+    pub controlled: bool,
+    /// `data` words for `lookup`, one per address.
+    pub data: Vec<u64>,
+    /// `data_width` for `lookup`.
+    pub data_width: usize,
+}
+
+impl ArithSpec {
+    /// Whether the map is promised only on register values below the
+    /// modulus (`add`/`subtract` with `modulus`, the modular multiply, `power`).
+    pub fn is_modular(&self) -> bool {
+        self.modulus.is_some()
+    }
+
+    /// The registers whose values must lie below the modulus (the domain
+    /// promise), by name.
+    pub fn below_modulus(&self) -> &'static [&'static str] {
+        if self.modulus.is_none() {
+            return &[];
+        }
+        match (self.op, self.constant.is_some()) {
+            (ArithOp::Add | ArithOp::Subtract, false) => &["a", "b"],
+            (ArithOp::Add | ArithOp::Subtract, true) => &["a"],
+            (ArithOp::Multiply | ArithOp::Power, _) => &["x"],
+            _ => &[],
+        }
+    }
+}
+
+/// The bits of `v`: 0 for 0.
+pub fn bits_of(v: &BigUint) -> usize {
+    v.bits() as usize
+}
 
 /// Most address bits of a lookup table.
 const MAX_LOOKUP_ADDRESS: usize = 20;

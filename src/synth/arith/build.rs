@@ -67,16 +67,63 @@ impl Bit {
 pub struct Temp {
     /// The value.
     pub bit: Bit,
-    start: usize,
-    end: usize,
+    start: Mark,
+    end: Mark,
     ancilla: Option<Line>,
 }
 
-/// Builds a circuit gate by gate.
+/// A place in the gate sequence: the gate index, and in counting mode the
+/// running tally, so that undoing a stretch adds its counts without the gates.
+#[derive(Clone, Copy, Debug)]
+pub struct Mark {
+    index: usize,
+    tally: Tally,
+}
+
+/// Gate counts of a stream of MCT gates, lowered gate by gate as
+/// [`crate::lower`] does (a `k >= 3`-control gate becomes `2k - 3` Toffolis),
+/// before lowering's pair-cancelling pass.
+#[derive(Clone, Copy, Debug, Default, PartialEq, Eq, serde::Serialize)]
+pub struct Tally {
+    /// MCT gates before lowering.
+    pub gates: u64,
+    /// Gates before lowering with 0, 1, 2 and 3 or more controls.
+    pub by_controls: [u64; 4],
+    /// Toffolis after lowering, before pair cancellation (an upper bound on
+    /// the built circuit's count).
+    pub toffoli: u64,
+    /// The most controls of one gate.
+    pub max_controls: usize,
+}
+
+impl Tally {
+    /// Counts one gate.
+    pub(super) fn add(&mut self, g: &Gate) {
+        let k = g.controls().len();
+        self.gates += 1;
+        self.by_controls[k.min(3)] += 1;
+        self.toffoli += match k {
+            0 | 1 => 0,
+            k => 2 * k as u64 - 3,
+        };
+        self.max_controls = self.max_controls.max(k);
+    }
+
+    fn since(&mut self, start: &Tally, end: &Tally) {
+        self.gates += end.gates - start.gates;
+        for i in 0..4 {
+            self.by_controls[i] += end.by_controls[i] - start.by_controls[i];
+        }
+        self.toffoli += end.toffoli - start.toffoli;
+    }
+}
+
+/// Builds a circuit gate by gate, or (counting) tallies the gates and keeps none.
 pub struct Builder {
     circuit: Circuit,
     ctrl: Option<Line>,
     free: Vec<Line>,
+    counting: Option<Tally>,
 }
 
 impl Builder {
@@ -86,6 +133,28 @@ impl Builder {
             circuit: Circuit::new(lines),
             ctrl,
             free: Vec::new(),
+            counting: None,
+        }
+    }
+
+    /// A builder that keeps no gates, only their tally: the streaming count.
+    pub fn counting(lines: Vec<LineInfo>) -> Self {
+        Builder {
+            counting: Some(Tally::default()),
+            ..Builder::new(lines, None)
+        }
+    }
+
+    /// The tally of a counting builder, and its lines (ancillae included,
+    /// the lowering pool not).
+    pub fn tally(&self) -> (Tally, usize) {
+        (self.counting.unwrap_or_default(), self.circuit.width())
+    }
+
+    fn push(&mut self, g: Gate) {
+        match &mut self.counting {
+            Some(t) => t.add(&g),
+            None => self.circuit.push(g),
         }
     }
 
@@ -112,14 +181,17 @@ impl Builder {
         self.free.push(line);
     }
 
-    /// Number of gates so far.
-    pub fn mark(&self) -> usize {
-        self.circuit.gates().len()
+    /// The place after the gates so far.
+    pub fn mark(&self) -> Mark {
+        Mark {
+            index: self.circuit.gates().len(),
+            tally: self.counting.unwrap_or_default(),
+        }
     }
 
     /// A gate that is undone later (never controlled).
     pub fn scaffold(&mut self, g: Gate) {
-        self.circuit.push(g);
+        self.push(g);
     }
 
     /// A gate that changes a register for good (controlled when the op is).
@@ -130,9 +202,9 @@ impl Builder {
                 controls.push(Control::pos(c.0));
                 let g =
                     Gate::new(controls, g.target()).expect("the control line is its own register");
-                self.circuit.push(g);
+                self.push(g);
             }
-            None => self.circuit.push(g),
+            None => self.push(g),
         }
     }
 
@@ -146,15 +218,24 @@ impl Builder {
 
     /// Reverses the order of the gates since `start`: every gate is its own
     /// inverse, so the part becomes its inverse.
-    pub fn reverse_from(&mut self, start: usize) {
+    /// (Counting, the order does not change the tally.)
+    pub fn reverse_from(&mut self, start: Mark) {
+        if self.counting.is_some() {
+            return;
+        }
         let mut gates = self.circuit.gates().to_vec();
-        gates[start..].reverse();
+        gates[start.index..].reverse();
         self.circuit.set_gates(gates);
     }
 
-    /// Replays scaffold gates `[start, end)` backwards, undoing them.
-    pub fn undo(&mut self, start: usize, end: usize) {
-        let gates: Vec<Gate> = self.circuit.gates()[start..end].to_vec();
+    /// Replays scaffold gates `[start, end)` backwards, undoing them
+    /// (counting, adds their tally again).
+    pub fn undo(&mut self, start: Mark, end: Mark) {
+        if let Some(t) = &mut self.counting {
+            t.since(&start.tally, &end.tally);
+            return;
+        }
+        let gates: Vec<Gate> = self.circuit.gates()[start.index..end.index].to_vec();
         for g in gates.into_iter().rev() {
             self.circuit.push(g);
         }

@@ -36,7 +36,7 @@ mod weight;
 
 pub use table::{arith_images, TABLE_MAX_LINES};
 
-pub use build::{Bit, Builder};
+pub use build::{Bit, Builder, Tally};
 pub use measured::{arithmetic_measured, lookup_of};
 
 use crate::circuit::layout::{CARRY, CONTROL, OUTPUTS};
@@ -94,21 +94,47 @@ fn const_bit(k: &BigUint, i: usize) -> bool {
 
 /// Generates the circuit of MCT gates for an arithmetic spec.
 pub fn arithmetic(spec: &ArithSpec) -> Circuit {
+    if spec.op == ArithOp::Lookup {
+        return lookup_of(spec, false);
+    }
     let (lines, r) = arith_lines(spec);
     let mut b = Builder::new(lines, None);
+    generate(&mut b, spec, &r);
+    b.finish()
+}
+
+/// Counts the gates of [`arithmetic`]'s circuit as they are generated,
+/// keeping none: the tally and the lines (ancillae included, lowering's pool not).
+pub fn arithmetic_tally(spec: &ArithSpec) -> (Tally, usize) {
+    if spec.op == ArithOp::Lookup {
+        // At most 2^20 words (the reader's limit): built, then counted.
+        let c = lookup_of(spec, false);
+        let mut t = Tally::default();
+        for g in c.gates() {
+            t.add(g);
+        }
+        return (t, c.width());
+    }
+    let (lines, r) = arith_lines(spec);
+    let mut b = Builder::counting(lines);
+    generate(&mut b, spec, &r);
+    b.tally()
+}
+
+fn generate(b: &mut Builder, spec: &ArithSpec, r: &Registers) {
     let zero = BigUint::default();
     let k = spec.constant.as_ref().unwrap_or(&zero);
     match (spec.op, &spec.modulus) {
         (ArithOp::Add | ArithOp::Subtract, Some(n)) => {
-            modular::add_or_subtract(&mut b, spec.op, &r, spec.constant.as_ref(), n)
+            modular::add_or_subtract(b, spec.op, r, spec.constant.as_ref(), n)
         }
-        (ArithOp::Add, None) if spec.constant.is_none() => add(&mut b, &r.a, &r.b, r.cout, r.ctrl),
+        (ArithOp::Add, None) if spec.constant.is_none() => add(b, &r.a, &r.b, r.cout, r.ctrl),
         (ArithOp::Subtract, None) if spec.constant.is_none() => {
             // b - a = !(!b + a)
             for &l in &r.b {
                 b.scaffold(Gate::not(l.0));
             }
-            add(&mut b, &r.a, &r.b, None, r.ctrl);
+            add(b, &r.a, &r.b, None, r.ctrl);
             for &l in &r.b {
                 b.scaffold(Gate::not(l.0));
             }
@@ -126,26 +152,25 @@ pub fn arithmetic(spec: &ArithSpec) -> Circuit {
             let q: Vec<Bit> = (0..w)
                 .map(|i| if const_bit(&k, i) { one } else { Bit::Zero })
                 .collect();
-            add_in_place(&mut b, &r.a, &q, r.cout);
+            add_in_place(b, &r.a, &q, r.cout);
         }
-        (ArithOp::Compare, _) => compare::compare(&mut b, spec, &r),
-        (ArithOp::Multiply, Some(n)) => multiply::multiply_mod_in_place(&mut b, &r.x, k, n, r.ctrl),
+        (ArithOp::Compare, _) => compare::compare(b, spec, r),
+        (ArithOp::Multiply, Some(n)) => multiply::multiply_mod_in_place(b, &r.x, k, n, r.ctrl),
         (ArithOp::Multiply, None) => match &spec.constant {
-            Some(c) => multiply::multiply_const(&mut b, &r.a, c, &r.p, r.ctrl),
-            None => multiply::multiply(&mut b, &r.a, &r.b, &r.p, r.ctrl),
+            Some(c) => multiply::multiply_const(b, &r.a, c, &r.p, r.ctrl),
+            None => multiply::multiply(b, &r.a, &r.b, &r.p, r.ctrl),
         },
         (ArithOp::Power, n) => power::power(
-            &mut b,
+            b,
             &r.e,
             &r.x,
             k,
             n.as_ref().expect("power has a modulus"),
             r.ctrl,
         ),
-        (ArithOp::Weight, _) => weight::weight(&mut b, &r.a, &r.y, r.ctrl),
-        (ArithOp::Lookup, _) => return lookup_of(spec, false),
+        (ArithOp::Weight, _) => weight::weight(b, &r.a, &r.y, r.ctrl),
+        (ArithOp::Lookup, _) => unreachable!("lookup is built by unary iteration"),
     }
-    b.finish()
 }
 
 /// `b += a` (mod `2^n`, carry to `cout`), Cuccaro form when uncontrolled,
