@@ -70,7 +70,7 @@ fn gidney_adder_costs_n_minus_1_and_n_with_carry_out() {
     // Subtraction is the same adder between NOTs: n - 1 as well.
     for n in [1, 5, 8] {
         let o = build_one(
-            &arith("sub", n, ""),
+            &arith("subtract", n, ""),
             Method::Structural,
             &measure(Some(Route::Auto)),
             &(),

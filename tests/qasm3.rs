@@ -49,8 +49,10 @@ fn reference_parse(files: &[std::path::PathBuf]) {
 }
 
 /// Every basis state of the non-ancilla lines (ancillae at 0): both
-/// circuits give the same non-ancilla registers, and each ends its ancillae at 0.
-fn same_on_basis_states(a: &Circuit, b: &Circuit) {
+/// circuits give the same non-ancilla registers, and (when `clean`: a map
+/// with no domain; a modular op promises nothing outside it) each ends its
+/// ancillae at 0.
+fn same_on_basis_states(a: &Circuit, b: &Circuit, clean: bool) {
     let free: Vec<(String, usize)> = a
         .registers()
         .into_iter()
@@ -70,8 +72,10 @@ fn same_on_basis_states(a: &Circuit, b: &Circuit) {
         for (n, _) in &free {
             assert_eq!(ra[n], rb[n], "register {n}, state {s}");
         }
-        assert_eq!(ra.get("anc").copied().unwrap_or(0), 0);
-        assert_eq!(rb.get("anc").copied().unwrap_or(0), 0);
+        if clean {
+            assert_eq!(ra.get("anc").copied().unwrap_or(0), 0, "state {s}");
+            assert_eq!(rb.get("anc").copied().unwrap_or(0), 0, "state {s}");
+        }
     }
 }
 
@@ -148,7 +152,9 @@ fn every_qasm3_file_reads_as_its_qasm2_twin_and_the_reference_parser_takes_it() 
             .map(|(_, s)| s)
             .sum();
         if free <= 14 {
-            same_on_basis_states(&c, &twin);
+            let domain =
+                matches!(&spec.body, oraculum::SpecBody::Arithmetic(a) if a.modulus.is_some());
+            same_on_basis_states(&c, &twin, !domain);
         }
         let f = dir.path().join(format!("{stem}.mct.qasm3"));
         std::fs::write(&f, &text3).unwrap();
