@@ -1,11 +1,13 @@
 //! Writers and readers: OpenQASM 2 (both ways), a plain text listing, drawings and the JSON reports.
 
+pub mod clifford_t;
 mod draw;
 mod gatedef;
 pub mod json;
 mod qasm2;
 mod text;
 
+pub use clifford_t::{is_clifford_t, write_clifford_t};
 pub use draw::{draw_svg, draw_text};
 pub use gatedef::write_qasm_gate;
 pub use qasm2::{
