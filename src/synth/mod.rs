@@ -17,7 +17,7 @@ mod pebble;
 mod reed_muller;
 mod transform;
 
-pub use arith::gidney::{gidney_add, gidney_ands};
+pub use arith::gidney::gidney_add;
 pub use arith::lookup::unary_lookup;
 pub use arith::{arith_lines, arithmetic, arithmetic_measured, Registers};
 pub use bennett::{bennett, bennett_counts, bennett_xag, xag_network, PEBBLE_SAT_MAX_NODES};
