@@ -290,3 +290,47 @@ fn bennett_costs_one_toffoli_equivalent_per_and_node() {
     }
     assert!(checked >= 5, "{checked} function specs");
 }
+
+// Every demo spec (auto) and every arithmetic op at a small width, built in
+// measure mode, is proven by the verifier; measure mode never costs more
+// Toffoli-equivalents than toffoli mode has Toffolis.
+#[test]
+fn every_demo_spec_and_op_is_proven_in_measure_mode() {
+    common::tables();
+    let mut specs: Vec<(String, Spec)> = Vec::new();
+    for entry in std::fs::read_dir(common::repo().join("specs")).unwrap() {
+        let path = entry.unwrap().path();
+        let name = path.display().to_string();
+        specs.push((
+            name.clone(),
+            parse_spec(&name, &std::fs::read_to_string(&path).unwrap()).unwrap(),
+        ));
+    }
+    for (op, extra) in [
+        ("add", ""),
+        ("add", "controlled = true\n"),
+        ("add", "carry_out = true\n"),
+        ("sub", ""),
+        ("add_const", "constant = 5\n"),
+        ("less_than", ""),
+        ("less_than_const", "constant = 9\n"),
+        ("equal_const", "constant = 6\n"),
+        ("increment_mod", "modulus = 11\n"),
+        ("add_mod", "modulus = 13\n"),
+    ] {
+        specs.push((format!("{op} {extra}"), arith(op, 4, extra)));
+    }
+    for (name, s) in &specs {
+        let o = oraculum::build(s, &measure(Some(Route::Auto))).unwrap();
+        assert!(proven(&o.verification), "{name}: {:?}", o.verification);
+        let mut plain = measure(None);
+        plain.uncompute = Uncompute::Toffoli;
+        let t = oraculum::build(s, &plain).unwrap();
+        assert!(
+            o.cost.toffoli_equivalent <= t.cost.toffoli,
+            "{name}: {} > {}",
+            o.cost.toffoli_equivalent,
+            t.cost.toffoli
+        );
+    }
+}
