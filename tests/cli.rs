@@ -965,3 +965,36 @@ fn clifford_t_files_are_refused_by_the_reader() {
         assert!(!out.contains("verified"), "{out}");
     }
 }
+
+// `draw --uncompute measure` marks temporary ANDs and measured uncomputes.
+#[test]
+fn draw_marks_measured_gates() {
+    let dir = workspace();
+    let o = run_in(
+        dir.path(),
+        &[
+            "draw",
+            "specs/tide-gate.toml",
+            "--method",
+            "bennett",
+            "--lowered",
+            "--uncompute",
+            "measure",
+        ],
+    );
+    assert_eq!(o.status.code(), Some(0), "{:?}", text(&o));
+    let (out, _) = text(&o);
+    assert!(out.contains('∧') && out.contains('M'), "{out}");
+    assert!(out.contains("measured uncomputes"), "{out}");
+    let o = run_in(
+        dir.path(),
+        &[
+            "draw",
+            "specs/tide-gate.toml",
+            "--method",
+            "bennett",
+            "--lowered",
+        ],
+    );
+    assert!(!text(&o).0.contains('∧'));
+}
