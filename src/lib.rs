@@ -53,7 +53,9 @@ pub use pipeline::{
 };
 pub use progress::{Event, Progress, Task};
 pub use source::{LocatedError, Location};
-pub use spec::{parse_spec, ArithOp, ArithSpec, FunctionSpec, OracleForm, Spec, SpecBody};
+pub use spec::{
+    parse_spec, ArithOp, ArithSpec, BigUint, FunctionSpec, OracleForm, Relation, Spec, SpecBody,
+};
 pub use synth::{Method, SynthError, SynthLimits};
 pub use verify::{
     verify, verify_inverse_with_progress, verify_with_progress, Counterexample, Route, Verdict,

@@ -550,7 +550,7 @@ fn sat_route_from_the_command_line() {
     let dir = workspace();
     std::fs::write(
         dir.path().join("wide.toml"),
-        "kind = \"arithmetic\"\nop = \"less_than\"\nwidth = 48\ncontrolled = true\n",
+        "kind = \"arithmetic\"\nop = \"compare\"\nrelation = \"<\"\nwidth = 48\ncontrolled = true\n",
     )
     .unwrap();
     let o = run_in(

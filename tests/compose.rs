@@ -499,16 +499,115 @@ fn grover_fields_only_for_predicates_and_unknown_past_the_limit() {
     let o = run_in(dir.path(), &["synth", "specs/greenhouse.toml", "--json"]);
     let j: serde_json::Value = serde_json::from_str(&text(&o).0).unwrap();
     assert!(j.get("marked").is_none(), "{j}");
+    // 64 inputs, past --max-states: counted by model counting. The card
+    // must equal the door code (2^32 pairs) and have odd parity (half of
+    // them): 2^31 marked (by hand).
     let o = run_in(dir.path(), &["synth", "specs/badge-match.toml", "--json"]);
     assert_eq!(o.status.code(), Some(0), "{:?}", text(&o));
     let j: serde_json::Value = serde_json::from_str(&text(&o).0).unwrap();
-    assert_eq!(j["marked"], "unknown", "{j}");
-    assert_eq!(j["grover_iterations"], "unknown");
-    assert_eq!(j["success_probability"], "unknown");
+    assert_eq!(j["marked"], 1u64 << 31, "{j}");
+    let theta = 2f64.powf(-16.5).asin();
+    let k = (std::f64::consts::PI / (4.0 * theta)).floor() as u64;
+    assert_eq!(j["grover_iterations"], k);
+    // A cone past the model counter's node limit (a chain of 20,001
+    // definitions): every figure unknown, found before any clause is built.
+    let mut toml = String::from(
+        "kind = \"function\"\ninputs = [\"a\", \"b\"]\noutputs = [\"f\"]\n[let]\nd0 = \"a\"\n",
+    );
+    for i in 1..=20_001 {
+        let v = if i % 2 == 0 { "a" } else { "b" };
+        toml.push_str(&format!(
+            "d{i} = \"d{} & {v} | !d{} & !{v}\"\n",
+            i - 1,
+            i - 1
+        ));
+    }
+    toml.push_str("[expr]\nf = \"d20001\"\n");
+    let spec = oraculum::parse_spec("chain.toml", &toml).unwrap();
+    assert!(oraculum::verify::count_marked(&spec, 2, &()).is_err());
+    let g = oraculum::pipeline::grover_facts(&spec, 2, &())
+        .unwrap()
+        .unwrap();
+    assert_eq!(g.marked, oraculum::pipeline::Fact::Unknown("unknown"));
+    assert_eq!(
+        g.grover_iterations,
+        oraculum::pipeline::Fact::Unknown("unknown")
+    );
 }
 
-/// A 20-input expression (256 blocks of the verifier's count): the count
-/// against the test's own evaluation of every input.
+/// The 8-bit values of popcount 4 beside 32 inputs the predicate ignores:
+/// 2^40 inputs, past the default --max-states, so the marked inputs are
+/// counted by model counting: 70 * 2^32 (binomial(8, 4) = 70 times every
+/// value of the other bits), with M/N = 70/256 as before, so 1 iteration and
+/// success probability 0.993 (Boyer, Brassard, Hoyer, Tapp 1998; issue 16).
+#[test]
+fn popcount_four_past_the_state_limit_is_counted_by_models() {
+    let names: Vec<String> = (0..40).map(|j| format!("b{j}")).collect();
+    let products: Vec<String> = (0..256usize)
+        .filter(|x| x.count_ones() == 4)
+        .map(|x| {
+            let lits: Vec<String> = (0..8)
+                .map(|j| format!("{}{}", if (x >> j) & 1 == 1 { "" } else { "!" }, names[j]))
+                .collect();
+            format!("({})", lits.join(" & "))
+        })
+        .collect();
+    let toml = format!(
+        "kind = \"function\"\ninputs = [{}]\noutputs = [\"four\"]\n[expr]\nfour = \"{}\"\n",
+        names
+            .iter()
+            .map(|n| format!("\"{n}\""))
+            .collect::<Vec<_>>()
+            .join(", "),
+        products.join(" | ")
+    );
+    let spec = oraculum::parse_spec("p40.toml", &toml).unwrap();
+    let g = oraculum::pipeline::grover_facts(&spec, oraculum::verify::DEFAULT_MAX_STATES, &())
+        .unwrap()
+        .unwrap();
+    use oraculum::pipeline::Fact;
+    assert_eq!(g.marked, Fact::Known(70 << 32));
+    assert_eq!(g.input_bits, 40);
+    assert_eq!(g.grover_iterations, Fact::Known(1));
+    let Fact::Known(p) = g.success_probability else {
+        panic!("known")
+    };
+    assert_eq!((p * 1000.0).floor(), 993.0, "{p}");
+}
+
+/// Random predicates of 10 inputs beside 26 unused ones (2^36 inputs, past
+/// the default --max-states): the model count is the direct enumeration's
+/// count times 2^26.
+#[test]
+fn model_counts_of_random_predicates_match_enumeration() {
+    use proptest::strategy::{Strategy, ValueTree};
+    let mut runner = proptest::test_runner::TestRunner::deterministic();
+    let names = common::input_names(36);
+    for _ in 0..40 {
+        let e = common::arb_expr(10)
+            .new_tree(&mut runner)
+            .unwrap()
+            .current();
+        let toml = format!(
+            "kind = \"function\"\ninputs = [{}]\noutputs = [\"f\"]\n[expr]\nf = \"{}\"\n",
+            names
+                .iter()
+                .map(|n| format!("\"{n}\""))
+                .collect::<Vec<_>>()
+                .join(", "),
+            e.render(&names[..10])
+        );
+        let spec = oraculum::parse_spec("r.toml", &toml).unwrap();
+        let want = (0..1u64 << 10).filter(|&x| e.eval(x)).count() as u64;
+        let got = oraculum::verify::count_marked(&spec, oraculum::verify::DEFAULT_MAX_STATES, &())
+            .unwrap();
+        assert_eq!(got, Some(want << 26), "{toml}");
+    }
+}
+
+/// A 20-input expression (256 blocks of the verifier's count), and the
+/// model count one state past the limit: both against the test's own
+/// evaluation of every input.
 #[test]
 fn a_wide_count_matches_direct_enumeration() {
     use proptest::strategy::{Strategy, ValueTree};
@@ -532,8 +631,9 @@ fn a_wide_count_matches_direct_enumeration() {
         let want = (0..1u64 << 20).filter(|&x| e.eval(x)).count() as u64;
         let got = oraculum::verify::count_marked(&spec, 1 << 20, &()).unwrap();
         assert_eq!(got, Some(want), "{toml}");
-        // One state short of the inputs: refused, nothing counted.
-        assert!(oraculum::verify::count_marked(&spec, (1 << 20) - 1, &()).is_err());
+        // One state short of the inputs: counted by model counting, alike.
+        let models = oraculum::verify::count_marked(&spec, (1 << 20) - 1, &()).unwrap();
+        assert_eq!(models, Some(want), "{toml}");
     }
 }
 
@@ -742,12 +842,185 @@ fn bad_register_tables_are_refused_at_their_place() {
     let s = oraculum::parse_spec("t.toml", &format!("{head}x = \"y\"\ny = \"x\"\n")).unwrap();
     assert_eq!(s.register_name("x"), "y");
     // The arithmetic registers take own names, the kind's own only.
-    let arith = "kind = \"arithmetic\"\nop = \"less_than\"\nwidth = 4\n[registers]\n";
+    let arith =
+        "kind = \"arithmetic\"\nop = \"compare\"\nrelation = \"<\"\nwidth = 4\n[registers]\n";
     assert!(oraculum::parse_spec(
         "t.toml",
         &format!("{arith}a = \"left\"\nb = \"right\"\ny = \"less\"\n")
     )
     .is_ok());
     let e = oraculum::parse_spec("t.toml", &format!("{arith}cout = \"c\"\n")).unwrap_err();
-    assert_eq!((e.location.line, e.location.column), (5, 1), "{e}");
+    assert_eq!((e.location.line, e.location.column), (6, 1), "{e}");
+}
+
+/// Every basis state of `c`'s free registers (ancillae at 0) against a map
+/// of the test's own, by its own simulator: with `ctrl` at 0 every register
+/// keeps its value, with `ctrl` at 1 `map` gives the registers after.
+/// `free` lists (register, size) without `ctrl`; true when all agree.
+fn controlled_map_holds(
+    c: &oraculum::Circuit,
+    free: &[(&str, usize)],
+    map: &dyn Fn(&[u128]) -> Vec<u128>,
+) -> bool {
+    let bits: usize = free.iter().map(|(_, s)| s).sum();
+    for s in 0..1u128 << (bits + 1) {
+        let mut values = Vec::new();
+        let mut shift = 0;
+        for (_, size) in free {
+            values.push((s >> shift) & ((1 << size) - 1));
+            shift += size;
+        }
+        let ctrl = s >> bits;
+        let mut inputs: Vec<(&str, u128)> =
+            free.iter().map(|(n, _)| *n).zip(values.clone()).collect();
+        inputs.push(("ctrl", ctrl));
+        let out = common::run_registers(c, &inputs);
+        let want = if ctrl == 1 {
+            map(&values)
+        } else {
+            values.clone()
+        };
+        let got: Vec<u128> = free.iter().map(|(n, _)| out[*n]).collect();
+        if got != want || out.get("anc").copied().unwrap_or(0) != 0 || out["ctrl"] != ctrl {
+            return false;
+        }
+    }
+    true
+}
+
+/// `controlled = true` on a truth table (majority of three, 0xe8), an
+/// expression network with definitions, and a permutation (the dice shuffle
+/// [5, 2, 7, 0, 6, 1, 4, 3]), through every method that applies: each
+/// circuit is proven by both routes, and the test's own simulator finds it
+/// the identity with the control at 0 and the map with it at 1 on every
+/// basis state. Every single-fault mutant of one circuit per spec is refuted
+/// exactly when the test's own check finds it wrong, and dropping the control
+/// from one gate is refuted on a state with the control at 0.
+#[test]
+fn controlled_function_and_permutation_specs_are_proven_at_both_controls() {
+    use oraculum::verify::{verify, Route, Verdict, VerifyOptions};
+    common::tables();
+    let majority = "kind = \"function\"\ninputs = [\"a\", \"b\", \"c\"]\noutputs = [\"most\"]\ncontrolled = true\n[table]\nmost = \"0xe8\"\n";
+    let network = "kind = \"function\"\ninputs = [\"a\", \"b\", \"c\", \"d\"]\noutputs = [\"f\", \"g\"]\ncontrolled = true\n[let]\ns = \"a ^ b\"\n[expr]\nf = \"s & c | d\"\ng = \"s & !d\"\n";
+    let shuffle =
+        "kind = \"permutation\"\nwidth = 3\nimages = [5, 2, 7, 0, 6, 1, 4, 3]\ncontrolled = true\n";
+    let maj = |v: &[u128]| {
+        let x = v[0];
+        vec![x, v[1] ^ ((0xe8 >> x) & 1)]
+    };
+    let net = |v: &[u128]| {
+        let b = |j: u32| (v[0] >> j) & 1 == 1;
+        let s = b(0) ^ b(1);
+        let f = (s && b(2)) || b(3);
+        let g = s && !b(3);
+        vec![v[0], v[1] ^ (f as u128 | (g as u128) << 1)]
+    };
+    let images = [5u128, 2, 7, 0, 6, 1, 4, 3];
+    let shuf = |v: &[u128]| vec![images[v[0] as usize]];
+    type Map<'a> = &'a dyn Fn(&[u128]) -> Vec<u128>;
+    type Case<'a> = (&'a str, Vec<(&'a str, usize)>, Map<'a>, &'a [&'a str]);
+    let cases: [Case; 3] = [
+        (
+            majority,
+            vec![("x", 3), ("y", 1)],
+            &maj,
+            &[
+                "reed-muller",
+                "esop",
+                "bennett",
+                "xag",
+                "exact",
+                "transform",
+            ],
+        ),
+        (
+            network,
+            vec![("x", 4), ("y", 2)],
+            &net,
+            &["reed-muller", "esop", "bennett", "xag", "hierarchical"],
+        ),
+        (
+            shuffle,
+            vec![("x", 3)],
+            &shuf,
+            &["transform", "transform-bidir", "exact"],
+        ),
+    ];
+    let sat = VerifyOptions {
+        route: Route::Sat,
+        ..VerifyOptions::default()
+    };
+    for (toml, free, map, methods) in &cases {
+        let spec = oraculum::parse_spec("c.toml", toml).unwrap();
+        assert_eq!(spec.layout().sizes()[0], ("ctrl", 1), "ctrl comes first");
+        for m in *methods {
+            let opts = oraculum::BuildOptions {
+                method: oraculum::Method::from_name(m),
+                verify: Some(VerifyOptions::default()),
+                ..Default::default()
+            };
+            let out = oraculum::pipeline::build(&spec, &opts).unwrap();
+            let c = &out.lowered;
+            assert!(out.verification.is_proven(), "{m}: {:?}", out.verification);
+            assert!(
+                matches!(
+                    verify(c, &spec, &sat).unwrap(),
+                    Verdict::Proven { by: "sat", .. }
+                ),
+                "{m}"
+            );
+            assert!(controlled_map_holds(c, free, *map), "{toml}\n{m}");
+            assert_eq!(c.lines()[0].register, "ctrl");
+            assert!(
+                out.notes
+                    .iter()
+                    .any(|n| n.starts_with("the control costs ")),
+                "{:?}",
+                out.notes
+            );
+        }
+        let opts = oraculum::BuildOptions {
+            method: oraculum::Method::from_name(methods[0]),
+            verify: Some(VerifyOptions::default()),
+            ..Default::default()
+        };
+        let c = oraculum::pipeline::build(&spec, &opts).unwrap().lowered;
+        let mut refuted = 0;
+        for (fault, m) in oraculum::mutate::mutants(&c) {
+            let right = controlled_map_holds(&m, free, *map);
+            let v = verify(&m, &spec, &VerifyOptions::default()).unwrap();
+            let proven = matches!(v, Verdict::Proven { .. });
+            assert_eq!(proven, right, "{}: {toml}", fault.name());
+            refuted += !right as usize;
+        }
+        assert!(refuted > 10, "{refuted}");
+        // The control dropped from the first gate that has it.
+        let k = c
+            .gates()
+            .iter()
+            .position(|g| g.has_control(oraculum::Line(0)))
+            .unwrap();
+        let mut gates = c.gates().to_vec();
+        let cs = gates[k]
+            .controls()
+            .iter()
+            .copied()
+            .filter(|x| x.line != oraculum::Line(0))
+            .collect();
+        gates[k] = oraculum::Gate::new(cs, gates[k].target()).unwrap();
+        let mut m = c.clone();
+        m.set_gates(gates);
+        match verify(&m, &spec, &VerifyOptions::default()).unwrap() {
+            Verdict::Refuted { counterexample } => {
+                // At 1 the mutant is the circuit; only the control at 0 shows it.
+                let ctrl = counterexample.input.iter().find(|r| r.register == "ctrl");
+                assert_eq!(ctrl.unwrap().value, Some(0), "{counterexample:?}");
+            }
+            v => panic!("{v:?}"),
+        }
+        assert!(matches!(
+            verify(&m, &spec, &sat).unwrap(),
+            Verdict::Refuted { .. }
+        ));
+    }
 }

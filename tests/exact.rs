@@ -25,6 +25,7 @@ fn every_3_bit_function_gets_its_minimum_and_verifies() {
             body: SpecBody::Permutation(Permutation::new(3, images.to_vec()).unwrap()),
             form: OracleForm::Xor,
             registers: Vec::new(),
+            controlled: false,
         };
         let v = verify(&circuit, &spec, &VerifyOptions::default()).unwrap();
         assert!(matches!(v, Verdict::Proven { .. }), "{images:?}");

@@ -71,7 +71,7 @@ fn gidney_adder_costs_n_minus_1_and_n_with_carry_out() {
     // Subtraction is the same adder between NOTs: n - 1 as well.
     for n in [1, 5, 8] {
         let o = build_one(
-            &arith("sub", n, ""),
+            &arith("subtract", n, ""),
             Method::Structural,
             &measure(Some(Route::Auto)),
             &(),
@@ -310,13 +310,13 @@ fn every_demo_spec_and_op_is_proven_in_measure_mode() {
         ("add", ""),
         ("add", "controlled = true\n"),
         ("add", "carry_out = true\n"),
-        ("sub", ""),
-        ("add_const", "constant = 5\n"),
-        ("less_than", ""),
-        ("less_than_const", "constant = 9\n"),
-        ("equal_const", "constant = 6\n"),
-        ("increment_mod", "modulus = 11\n"),
-        ("add_mod", "modulus = 13\n"),
+        ("subtract", ""),
+        ("add", "constant = 5\n"),
+        ("compare", "relation = \"<\"\n"),
+        ("compare", "relation = \"<\"\nconstant = 9\n"),
+        ("compare", "relation = \"==\"\nconstant = 6\n"),
+        ("add", "constant = 1\nmodulus = 11\n"),
+        ("add", "modulus = 13\n"),
     ] {
         specs.push((format!("{op} {extra}"), arith(op, 4, extra)));
     }

@@ -25,6 +25,7 @@ fn spec_of(n: &Netlist, name: &str) -> Spec {
         body: SpecBody::Function(netlist_function(n, None).unwrap()),
         form: OracleForm::Xor,
         registers: Vec::new(),
+        controlled: false,
     }
 }
 

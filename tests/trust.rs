@@ -99,9 +99,9 @@ fn vault(x: u64) -> bool {
     a < b
 }
 
-/// talk-schedule's predicate, from the spec's description: four 2-bit slots
+/// workshop-timetable's predicate, from the spec's description: four 2-bit slots
 /// `a, b, c, d`; valid when `a != b`, `c > a`, `d != c` and `b != 3`.
-fn talks(x: u64) -> bool {
+fn timetable(x: u64) -> bool {
     let slot = |k: u64| (x >> (2 * k)) & 3;
     let (a, b, c, d) = (slot(0), slot(1), slot(2), slot(3));
     a != b && c > a && d != c && b != 3
@@ -170,7 +170,7 @@ fn phase_oracle_mutation_campaign_has_no_false_verified() {
     type Case = (&'static str, &'static str, usize, fn(u64) -> bool);
     let cases: [Case; 2] = [
         ("specs/vault-phase.toml", "esop", 4, vault),
-        ("specs/talk-schedule.toml", "esop", 8, talks),
+        ("specs/workshop-timetable.toml", "esop", 8, timetable),
     ];
     for (spec, method, inputs, pred) in cases {
         let qasm = synth(dir.path(), spec, method);
@@ -642,7 +642,7 @@ fn crafted_inputs_under_a_4_gb_cap_end_with_a_code_never_a_signal() {
 fn a_closed_pipe_ends_quietly() {
     let dir = workspace();
     let mut child = std::process::Command::new(binary())
-        .args(["draw", "specs/talk-schedule.toml"])
+        .args(["draw", "specs/workshop-timetable.toml"])
         .current_dir(dir.path())
         .stdout(std::process::Stdio::piped())
         .stderr(std::process::Stdio::piped())
@@ -764,7 +764,7 @@ fn a_pebbling_search_out_of_time_says_so_instead_of_claiming_no_circuit_fits() {
         dir.path(),
         &[
             "synth",
-            "specs/talk-schedule.toml",
+            "specs/workshop-timetable.toml",
             "--method",
             "bennett",
             "--max-qubits",
@@ -785,7 +785,7 @@ fn a_pebbling_search_out_of_time_says_so_instead_of_claiming_no_circuit_fits() {
         dir.path(),
         &[
             "synth",
-            "specs/talk-schedule.toml",
+            "specs/workshop-timetable.toml",
             "--method",
             "bennett",
             "--max-qubits",

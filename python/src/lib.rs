@@ -5,7 +5,7 @@
 #![allow(clippy::result_large_err, clippy::useless_conversion)]
 
 use oraculum::export::json::CompareTable;
-use oraculum::export::{draw_svg, read_qasm_with, ReadError, ReadLimits};
+use oraculum::export::{draw_svg, read_circuit_with, Qasm3Options, ReadError, ReadLimits};
 use oraculum::logic::TruthTable;
 use oraculum::pipeline::{best_of, compare_with_progress};
 use oraculum::source::{ErrorKind, SourceError};
@@ -347,6 +347,7 @@ fn refuted(py: Python<'_>, what: &str, cx: &Counterexample) -> PyErr {
 struct Oracle {
     outcome: Outcome,
     qasm: String,
+    as_gate: Option<String>,
 }
 
 #[pymethods]
@@ -355,6 +356,19 @@ impl Oracle {
     /// text `oraculum synth` writes).
     fn qasm(&self) -> String {
         self.qasm.clone()
+    }
+
+    /// The circuit as OpenQASM 3 text (`oraculum synth --format qasm3`, in
+    /// gate form when `as_gate` was given); `keep_mct=True` writes the gates
+    /// before lowering as `ctrl(k) @ x` (`--keep-mct`).
+    #[pyo3(signature = (keep_mct=false))]
+    fn qasm3(&self, keep_mct: bool) -> PyResult<String> {
+        self.outcome
+            .qasm3(&Qasm3Options {
+                gate: self.as_gate.clone(),
+                keep_mct,
+            })
+            .map_err(|e| PyValueError::new_err(format!("cannot write OpenQASM 3: {e}")))
     }
 
     /// The method that ran (never "auto").
@@ -521,10 +535,14 @@ fn synthesize(
         None => outcome.qasm(),
     }
     .map_err(|e| PyValueError::new_err(format!("cannot write OpenQASM 2: {e}")))?;
-    Ok(Oracle { outcome, qasm })
+    Ok(Oracle {
+        outcome,
+        qasm,
+        as_gate,
+    })
 }
 
-/// Proves OpenQASM 2 text against `spec`: returns the verdict as a dict
+/// Proves OpenQASM 2 or 3 text against `spec`: returns the verdict as a dict
 /// (`verdict`, `by`, `free_bits`, `states`); raises `Refuted` with the
 /// counterexample when the circuit is wrong.
 #[pyfunction]
@@ -558,7 +576,7 @@ fn verify<'py>(
         max_gates: max_gates.unwrap_or(ReadLimits::default().max_gates),
         ..ReadLimits::default()
     };
-    let circuit = read_qasm_with("<qasm>", qasm, &read_limits).map_err(|e| match e {
+    let circuit = read_circuit_with("<qasm>", qasm, &read_limits).map_err(|e| match e {
         ReadError::Malformed(e) => located(py, &e),
         ReadError::Limit { kind, .. } => limit_reached(py, e.to_string(), kind),
     })?;

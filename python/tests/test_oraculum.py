@@ -422,3 +422,26 @@ def test_uncompute_measure_keyword():
     assert all(r["mode"] == "measure" for r in rows if r["error"] is None)
     with pytest.raises(ValueError):
         oraculum.synthesize(add, uncompute="both")
+
+
+def test_qasm3_is_the_cli_file_and_verifies(tmp_path):
+    # .qasm3() is the text of `synth --format qasm3` (plain, gate form and
+    # --keep-mct), and verify() proves OpenQASM 3 text as it proves OpenQASM 2.
+    exe = cli()
+    path = tmp_path / "vote.toml"
+    path.write_text(MAJORITY)
+    for extra, kwargs, keep in (
+        ([], {}, False),
+        (["--as-gate", "vote"], {"as_gate": "vote"}, False),
+        (["--keep-mct"], {}, True),
+    ):
+        run = subprocess.run(
+            [exe, "synth", str(path), "--format", "qasm3", *extra],
+            capture_output=True, text=True, check=True,
+        )
+        o = oraculum.synthesize(str(path), **kwargs)
+        text = o.qasm3(keep_mct=keep)
+        assert text == run.stdout
+        assert text.startswith('OPENQASM 3.0;\ninclude "stdgates.inc";\n')
+        assert "qubit[3] x_;" in text
+        assert oraculum.verify(text, MAJORITY)["verdict"] == "proven"

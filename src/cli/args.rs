@@ -13,7 +13,7 @@ pub const AFTER_HELP: &str =
 #[command(
     name = "oraculum",
     version,
-    about = "Turns classical functions into verified reversible oracles, written as OpenQASM 2.",
+    about = "Turns classical functions into verified reversible oracles, written as OpenQASM 2 or 3.",
     after_help = AFTER_HELP
 )]
 pub struct Cli {
@@ -25,6 +25,8 @@ pub struct Cli {
 pub enum Format {
     /// OpenQASM 2 with x, cx and ccx.
     Qasm,
+    /// OpenQASM 3 with stdgates.inc (x, cx, ccx; ctrl(k) @ x with --keep-mct).
+    Qasm3,
     /// A plain listing of lines and gates.
     Text,
     /// OpenQASM 2 in Clifford+T (h, s, sdg, t, tdg, x, cx, cz, measure, if); verify does not read it.
@@ -76,9 +78,9 @@ pub enum Command {
         #[command(flatten)]
         limits: LimitArgs,
     },
-    /// Verify an OpenQASM 2 circuit against a spec.
+    /// Verify an OpenQASM 2 or 3 circuit against a spec.
     Verify {
-        /// The circuit (OpenQASM 2 with x, cx, ccx).
+        /// The circuit (OpenQASM 2 or 3 with x, cx, ccx).
         circuit: PathBuf,
         /// The spec it should realize.
         #[arg(long, required_unless_present = "against", conflicts_with = "against")]
@@ -129,9 +131,9 @@ pub enum Command {
         #[arg(long)]
         json: bool,
     },
-    /// Print the cost report of an OpenQASM 2 circuit.
+    /// Print the cost report of an OpenQASM 2 or 3 circuit.
     Cost {
-        /// The circuit (OpenQASM 2 with x, cx, ccx).
+        /// The circuit (OpenQASM 2 or 3 with x, cx, ccx).
         circuit: PathBuf,
         /// Print the report as one JSON object.
         #[arg(long)]
@@ -150,7 +152,7 @@ pub enum Command {
         #[command(flatten)]
         limits: LimitArgs,
     },
-    /// Draw a circuit (an OpenQASM 2 file, or a spec, synthesized first) in the terminal or as SVG.
+    /// Draw a circuit (an OpenQASM 2 or 3 file, or a spec, synthesized first) in the terminal or as SVG.
     Draw {
         /// A circuit (.qasm) or a spec (.toml).
         input: PathBuf,
@@ -209,12 +211,15 @@ pub struct FormArgs {
     /// Output format of the circuit.
     #[arg(long, value_enum, default_value = "qasm")]
     pub format: Format,
-    /// Write the circuit as an OpenQASM 2 gate definition named NAME (every line an argument, ancillae entering and leaving at |0>) and one application of it.
+    /// Write the circuit as an OpenQASM gate definition named NAME (every line an argument, ancillae entering and leaving at |0>) and one application of it.
     #[arg(long, value_name = "NAME")]
     pub as_gate: Option<String>,
     /// Write the inverse circuit (the gates in reverse order), verified against the inverse of the spec's map.
     #[arg(long)]
     pub inverse: bool,
+    /// With --format qasm3: write the gates before lowering, as ctrl(k) @ x (negctrl for controls on 0), for compilers that lower them.
+    #[arg(long)]
+    pub keep_mct: bool,
 }
 
 #[derive(clap::Args)]

@@ -1,7 +1,7 @@
 //! Files: reading inputs with their names in messages, writing outputs atomically, the cache folder.
 
 use super::{code, render, Failure};
-use oraculum::export::{read_qasm_with, ReadError, ReadLimits};
+use oraculum::export::{read_circuit_with, ReadError, ReadLimits};
 use oraculum::netlist::{read_netlist, ReadError as NetError, ReadLimits as NetLimits};
 use oraculum::spec::{netlist_function, parse_spec_with, SpecLoadError};
 use oraculum::{Circuit, OracleForm, Spec, SpecBody};
@@ -84,6 +84,7 @@ fn load_design(path: &Path) -> Result<Spec, Failure> {
         body: SpecBody::Function(f),
         form: OracleForm::Xor,
         registers: Vec::new(),
+        controlled: false,
     })
 }
 
@@ -161,13 +162,13 @@ pub fn standard_names(
     Ok(c.with_registers_renamed(&map))
 }
 
-/// Reads an OpenQASM 2 file within `max_gates` gates.
+/// Reads an OpenQASM 2 or 3 file within `max_gates` gates.
 pub fn load_circuit(path: &Path, max_gates: usize) -> Result<Circuit, Failure> {
     let text = read_text(path)?;
     parse_circuit(path, &text, max_gates)
 }
 
-/// Parses OpenQASM 2 text read from `path`.
+/// Parses OpenQASM 2 or 3 text read from `path`.
 pub fn parse_circuit(path: &Path, text: &str, max_gates: usize) -> Result<Circuit, Failure> {
     if oraculum::export::is_clifford_t(text) {
         return Err(Failure::bad(format!(
@@ -179,7 +180,7 @@ pub fn parse_circuit(path: &Path, text: &str, max_gates: usize) -> Result<Circui
         max_gates,
         ..ReadLimits::default()
     };
-    read_qasm_with(&path.display().to_string(), text, &limits).map_err(|e| match e {
+    read_circuit_with(&path.display().to_string(), text, &limits).map_err(|e| match e {
         ReadError::Malformed(e) => Failure::from(e),
         ReadError::Limit { kind, .. } => Failure::with_code(
             code::LIMIT,

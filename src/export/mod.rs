@@ -1,10 +1,12 @@
-//! Writers and readers: OpenQASM 2 (both ways), a plain text listing, drawings and the JSON reports.
+//! Writers and readers: OpenQASM 2 and 3 (both ways), a plain text listing, drawings and the JSON reports.
 
 pub mod clifford_t;
 mod draw;
 mod gatedef;
 pub mod json;
 mod qasm2;
+mod qasm3;
+mod qasm3_read;
 mod text;
 
 pub use clifford_t::{is_clifford_t, write_clifford_t};
@@ -14,4 +16,6 @@ pub use qasm2::{
     read_qasm, read_qasm_with, write_qasm, QasmHeader, ReadError, ReadLimits, WriteError,
     DEFAULT_MAX_GATES,
 };
+pub use qasm3::{qasm3_register_name, write_qasm3, Qasm3Options};
+pub use qasm3_read::{is_qasm3, read_circuit_with, read_qasm3_with};
 pub use text::listing;

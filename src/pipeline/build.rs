@@ -62,6 +62,17 @@ pub fn build_one(
     if spec.form == OracleForm::Phase {
         lowered.set_phase(lowered.register(OUTPUTS).first().copied());
     }
+    let mut notes = synthesis.notes;
+    if spec.controlled && !matches!(spec.body, crate::spec::SpecBody::Arithmetic(_)) {
+        // The control's cost: the same circuit lowered without it.
+        let plain = lower(&crate::synth::control::without_control(&mct));
+        let toffolis = |c: &Circuit| c.gates().iter().filter(|g| g.controls().len() == 2).count();
+        let (with, without) = (toffolis(&lowered), toffolis(&plain));
+        notes.push(format!(
+            "the control costs {} Toffoli(s): {with} with it, {without} without",
+            with.saturating_sub(without)
+        ));
+    }
     let t2 = Instant::now();
     let mut cost = Cost::measure(&mct, &lowered);
     cost.mode = cost.mode.max(opts.uncompute);
@@ -82,7 +93,7 @@ pub fn build_one(
             lower: (t2 - t1).as_secs_f64(),
             verify: (t3 - t2).as_secs_f64(),
         },
-        notes: synthesis.notes,
+        notes,
         stop: synthesis.stop,
         form: spec.form,
         inverse: false,

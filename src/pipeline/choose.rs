@@ -34,9 +34,25 @@ pub fn candidates(spec: &Spec, thorough: bool) -> Vec<Method> {
             v
         }
         SpecBody::Permutation(p) if p.width() <= 4 => {
-            vec![Method::Transform, Method::TransformBidir, Method::Exact]
+            vec![
+                Method::Transform,
+                Method::TransformBidir,
+                Method::Exact,
+                Method::Linear,
+            ]
         }
-        SpecBody::Permutation(_) => vec![Method::Transform, Method::TransformBidir],
+        SpecBody::Permutation(_) => vec![Method::Transform, Method::TransformBidir, Method::Linear],
+        // Small registers: the same map as a table, by permutation synthesis.
+        SpecBody::Arithmetic(a)
+            if a.layout().sizes().iter().map(|s| s.1).sum::<usize>()
+                <= crate::synth::TABLE_MAX_LINES =>
+        {
+            vec![
+                Method::Structural,
+                Method::Transform,
+                Method::TransformBidir,
+            ]
+        }
         SpecBody::Arithmetic(_) => vec![Method::Structural],
     }
 }

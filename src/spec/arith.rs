@@ -1,31 +1,91 @@
 //! Arithmetic specs: the op, its register width, and the keys each op takes.
+//!
+//! One schema of a few verbs (`add`, `subtract`, `compare`, `multiply`,
+//! `power`, `weight`, `lookup`) whose keys combine: `constant` replaces a
+//! register by a number, `modulus` makes the op modular (a promise on inputs
+//! below the modulus), `relation` picks a comparison, `controlled` gates any op.
 
 use super::error::SpecErrorKind;
 use super::raw::{Number, RawArithmetic};
-use super::{ArithOp, ArithSpec, SpecError, Validator, MAX_ARITH_WIDTH};
+use super::MAX_ARITH_WIDTH;
+use super::{bits_of, ArithOp, ArithSpec, BigUint, Relation, SpecError, Validator};
+use num_integer::Integer;
+use num_traits::{One, Zero};
 use std::ops::Range;
 use toml::Spanned;
 
 /// Most address bits of a lookup table.
 const MAX_LOOKUP_ADDRESS: usize = 20;
 
-fn parse_number(text: &str) -> Option<u64> {
-    let t: String = text.trim().chars().filter(|&c| c != '_').collect();
-    if let Some(h) = t.strip_prefix("0x").or_else(|| t.strip_prefix("0X")) {
-        u64::from_str_radix(h, 16).ok()
-    } else if let Some(b) = t.strip_prefix("0b").or_else(|| t.strip_prefix("0B")) {
-        u64::from_str_radix(b, 2).ok()
-    } else {
-        t.parse().ok()
+/// Most exponent bits of `power`.
+pub const MAX_EXPONENT_BITS: usize = 1 << 16;
+
+/// Longest number written as text: 65,536 binary digits and a prefix.
+const MAX_NUMBER_TEXT: usize = MAX_ARITH_WIDTH + 2 + MAX_ARITH_WIDTH / 4;
+
+/// The op names of the first schema and the form that replaces each.
+const RENAMED: [(&str, &str); 7] = [
+    ("sub", "op = \"subtract\""),
+    ("add_const", "op = \"add\" with constant = C"),
+    ("less_than", "op = \"compare\" with relation = \"<\""),
+    (
+        "less_than_const",
+        "op = \"compare\" with relation = \"<\" and constant = C",
+    ),
+    (
+        "equal_const",
+        "op = \"compare\" with relation = \"==\" and constant = C",
+    ),
+    (
+        "increment_mod",
+        "op = \"add\" with constant = 1 and modulus = N",
+    ),
+    ("add_mod", "op = \"add\" with modulus = N"),
+];
+
+fn parse_number(text: &str) -> Option<BigUint> {
+    if text.len() > MAX_NUMBER_TEXT {
+        return None;
     }
+    let t: String = text.trim().chars().filter(|&c| c != '_').collect();
+    let v = if let Some(h) = t.strip_prefix("0x").or_else(|| t.strip_prefix("0X")) {
+        BigUint::parse_bytes(h.as_bytes(), 16)
+    } else if let Some(b) = t.strip_prefix("0b").or_else(|| t.strip_prefix("0B")) {
+        BigUint::parse_bytes(b.as_bytes(), 2)
+    } else if !t.is_empty() && t.bytes().all(|c| c.is_ascii_digit()) {
+        BigUint::parse_bytes(t.as_bytes(), 10)
+    } else {
+        None
+    }?;
+    (bits_of(&v) <= MAX_ARITH_WIDTH).then_some(v)
+}
+
+/// `c^-1 mod n` for `gcd(c, n) = 1`, by the extended Euclidean algorithm.
+pub fn inverse_mod(c: &BigUint, n: &BigUint) -> Option<BigUint> {
+    use num_bigint::BigInt;
+    let (mut r0, mut r1) = (BigInt::from(n.clone()), BigInt::from(c % n));
+    let (mut t0, mut t1) = (BigInt::zero(), BigInt::one());
+    while !r1.is_zero() {
+        let q = &r0 / &r1;
+        let r2 = &r0 - &q * &r1;
+        r0 = std::mem::replace(&mut r1, r2);
+        let t2 = &t0 - &q * &t1;
+        t0 = std::mem::replace(&mut t1, t2);
+    }
+    if !r0.is_one() {
+        return None;
+    }
+    let n = BigInt::from(n.clone());
+    let t = ((t0 % &n) + &n) % &n;
+    t.to_biguint()
 }
 
 impl Validator<'_> {
-    fn number(&self, v: &Spanned<Number>, key: &'static str) -> Result<u64, SpecError> {
+    fn number(&self, v: &Spanned<Number>, key: &'static str) -> Result<BigUint, SpecError> {
         match v.get_ref() {
-            Number::Int(i) => {
-                u64::try_from(*i).map_err(|_| self.err(&v.span(), SpecErrorKind::Negative(key)))
-            }
+            Number::Int(i) => u64::try_from(*i)
+                .map(BigUint::from)
+                .map_err(|_| self.err(&v.span(), SpecErrorKind::Negative(key))),
             Number::Text(t) => {
                 parse_number(t).ok_or_else(|| self.err(&v.span(), SpecErrorKind::NotANumber(key)))
             }
@@ -43,6 +103,15 @@ impl Validator<'_> {
                 },
             )
         })?;
+        if let Some((old, new)) = RENAMED.iter().find(|(old, _)| op_raw.get_ref() == old) {
+            return Err(self.err(
+                &op_raw.span(),
+                SpecErrorKind::RenamedOp {
+                    old: old.to_string(),
+                    new,
+                },
+            ));
+        }
         let op = op_raw.get_ref().parse::<ArithOp>().map_err(|_| {
             self.err(
                 &op_raw.span(),
@@ -52,49 +121,89 @@ impl Validator<'_> {
                 },
             )
         })?;
-        let needs = |key: &'static str| SpecErrorKind::Missing {
-            key,
-            needed_by: format!("op '{}'", op.name()),
-        };
+        let needs = |key: &'static str, by: String| SpecErrorKind::Missing { key, needed_by: by };
+        let by_op = || format!("op '{}'", op.name());
+        let has_constant = raw.constant.is_some();
+        let has_modulus = raw.modulus.is_some();
         let uses = |key: &str| -> bool {
+            use ArithOp::*;
             match key {
-                "constant" => matches!(
-                    op,
-                    ArithOp::AddConst | ArithOp::LessThanConst | ArithOp::EqualConst
-                ),
-                "modulus" => matches!(op, ArithOp::IncrementMod | ArithOp::AddMod),
-                "carry_out" => op == ArithOp::Add,
-                "data" | "data_width" => op == ArithOp::Lookup,
+                "constant" => matches!(op, Add | Subtract | Compare | Multiply | Power),
+                "modulus" => matches!(op, Add | Subtract | Multiply | Power),
+                "relation" => op == Compare,
+                "carry_out" => op == Add && !has_modulus,
+                "exponent_bits" => op == Power,
+                "data" | "data_width" => op == Lookup,
                 _ => true,
             }
         };
-        let optional: [(&'static str, Option<Range<usize>>); 5] = [
+        let optional: [(&'static str, Option<Range<usize>>); 7] = [
             ("constant", raw.constant.as_ref().map(|v| v.span())),
             ("modulus", raw.modulus.as_ref().map(|v| v.span())),
+            ("relation", raw.relation.as_ref().map(|v| v.span())),
             ("carry_out", raw.carry_out.as_ref().map(|v| v.span())),
+            (
+                "exponent_bits",
+                raw.exponent_bits.as_ref().map(|v| v.span()),
+            ),
             ("data", raw.data.as_ref().map(|v| v.span())),
             ("data_width", raw.data_width.as_ref().map(|v| v.span())),
         ];
         for (key, span) in optional {
             if let Some(span) = span {
                 if !uses(key) {
-                    return Err(self.err(&span, SpecErrorKind::KeyNotForOp { key, op: op.name() }));
+                    let op_name = if key == "carry_out" && op == ArithOp::Add {
+                        "add with modulus"
+                    } else {
+                        op.name()
+                    };
+                    return Err(self.err(&span, SpecErrorKind::KeyNotForOp { key, op: op_name }));
                 }
             }
         }
         let range = |key: &'static str, rule: String| SpecErrorKind::OutOfRange { key, rule };
+        // Keys each op needs.
+        if op == ArithOp::Power {
+            if !has_constant {
+                return Err(self.err(&op_raw.span(), needs("constant", by_op())));
+            }
+            if !has_modulus {
+                return Err(self.err(&op_raw.span(), needs("modulus", by_op())));
+            }
+            if raw.exponent_bits.is_none() {
+                return Err(self.err(&op_raw.span(), needs("exponent_bits", by_op())));
+            }
+        }
+        if op == ArithOp::Multiply && has_modulus && !has_constant {
+            let span = raw.modulus.as_ref().map_or(op_raw.span(), |m| m.span());
+            return Err(self.err(
+                &span,
+                needs("constant", "a modular multiply (x -> c * x mod N)".into()),
+            ));
+        }
+        let relation = match &raw.relation {
+            Some(r) => Some(Relation::parse(r.get_ref()).ok_or_else(|| {
+                self.err(
+                    &r.span(),
+                    SpecErrorKind::UnknownRelation(r.get_ref().clone()),
+                )
+            })?),
+            None if op == ArithOp::Compare => {
+                return Err(self.err(&op_raw.span(), needs("relation", by_op())))
+            }
+            None => None,
+        };
         let modulus = match &raw.modulus {
             Some(m) => {
                 let v = self.number(m, "modulus")?;
-                if v < 2 {
+                if v < BigUint::from(2u32) {
                     return Err(self.err(&m.span(), range("modulus", "must be at least 2".into())));
                 }
-                Some(v)
+                Some((v, m.span()))
             }
-            None if uses("modulus") => return Err(self.err(&op_raw.span(), needs("modulus"))),
             None => None,
         };
-        let width = match (&raw.width, modulus) {
+        let width = match (&raw.width, &modulus) {
             (Some(w), _) => {
                 let v = self.nonneg(w, "width")? as usize;
                 if v == 0 || v > MAX_ARITH_WIDTH {
@@ -103,20 +212,20 @@ impl Validator<'_> {
                         range("width", format!("must be between 1 and {MAX_ARITH_WIDTH}")),
                     ));
                 }
-                if let Some(m) = modulus {
-                    if v < 64 && (m - 1) >> v != 0 {
+                if let Some((m, _)) = &modulus {
+                    if bits_of(&(m - 1u32)) > v {
                         return Err(self.err(
                             &w.span(),
                             SpecErrorKind::WidthBelowModulus {
                                 width: v,
-                                modulus: m,
+                                modulus: m.to_string(),
                             },
                         ));
                     }
                 }
                 v
             }
-            (None, Some(m)) => (64 - (m - 1).leading_zeros() as usize).max(1),
+            (None, Some((m, _))) => bits_of(&(m - 1u32)).max(1),
             (None, None) => {
                 return Err(self.err(
                     &kind_span,
@@ -130,19 +239,88 @@ impl Validator<'_> {
         let constant = match &raw.constant {
             Some(c) => {
                 let v = self.number(c, "constant")?;
-                if width < 64 && v >> width != 0 {
-                    return Err(self.err(
-                        &c.span(),
-                        SpecErrorKind::DoesNotFit {
-                            what: format!("constant {v}"),
-                            bits: width,
-                        },
-                    ));
+                let fits = |bits: usize| {
+                    if bits_of(&v) > bits {
+                        Err(self.err(
+                            &c.span(),
+                            SpecErrorKind::DoesNotFit {
+                                what: format!("constant {v}"),
+                                bits,
+                            },
+                        ))
+                    } else {
+                        Ok(())
+                    }
+                };
+                match (&modulus, op) {
+                    (Some((m, _)), _) => {
+                        if &v >= m {
+                            return Err(self.err(
+                                &c.span(),
+                                range("constant", format!("must be below the modulus {m}")),
+                            ));
+                        }
+                        if matches!(op, ArithOp::Multiply | ArithOp::Power) && !v.gcd(m).is_one() {
+                            return Err(self.err(
+                                &c.span(),
+                                range(
+                                    "constant",
+                                    format!(
+                                        "must share no factor with the modulus {m} (gcd(c, N) = 1), so that the map can be undone"
+                                    ),
+                                ),
+                            ));
+                        }
+                    }
+                    (None, ArithOp::Multiply) => {
+                        if v.is_zero() {
+                            return Err(
+                                self.err(&c.span(), range("constant", "must be at least 1".into()))
+                            );
+                        }
+                        if width + bits_of(&v) > MAX_ARITH_WIDTH {
+                            return Err(self.err(
+                                &c.span(),
+                                range(
+                                    "constant",
+                                    format!("needs a product register of width + bits(constant) = {} bits, past {MAX_ARITH_WIDTH}", width + bits_of(&v)),
+                                ),
+                            ));
+                        }
+                    }
+                    _ => fits(width)?,
                 }
                 Some(v)
             }
-            None if uses("constant") => return Err(self.err(&op_raw.span(), needs("constant"))),
             None => None,
+        };
+        if op == ArithOp::Multiply && constant.is_none() && 2 * width > MAX_ARITH_WIDTH {
+            let span = raw.width.as_ref().map_or(kind_span.clone(), |w| w.span());
+            return Err(self.err(
+                &span,
+                range(
+                    "width",
+                    format!(
+                        "of a register product needs a product of 2 * width bits, at most {MAX_ARITH_WIDTH}"
+                    ),
+                ),
+            ));
+        }
+        let exponent_bits = match &raw.exponent_bits {
+            Some(e) => {
+                let v = self.nonneg(e, "exponent_bits")? as usize;
+                if v == 0 || v > MAX_EXPONENT_BITS {
+                    return Err(self.err(
+                        &e.span(),
+                        range(
+                            "exponent_bits",
+                            format!("must be between 1 and {MAX_EXPONENT_BITS}"),
+                        ),
+                    ));
+                }
+                v
+            }
+            None => 0,
         };
         let (mut data, mut data_width) = (Vec::new(), 0);
         if op == ArithOp::Lookup {
@@ -153,7 +331,7 @@ impl Validator<'_> {
             let dw = raw
                 .data_width
                 .as_ref()
-                .ok_or_else(|| self.err(&op_raw.span(), needs("data_width")))?;
+                .ok_or_else(|| self.err(&op_raw.span(), needs("data_width", by_op())))?;
             data_width = self.nonneg(dw, "data_width")? as usize;
             if data_width == 0 || data_width > 64 {
                 return Err(self.err(
@@ -164,7 +342,7 @@ impl Validator<'_> {
             let words = raw
                 .data
                 .as_ref()
-                .ok_or_else(|| self.err(&op_raw.span(), needs("data")))?;
+                .ok_or_else(|| self.err(&op_raw.span(), needs("data", by_op())))?;
             if words.get_ref().len() != 1 << width {
                 return Err(self.err(
                     &words.span(),
@@ -191,9 +369,11 @@ impl Validator<'_> {
         Ok(ArithSpec {
             op,
             width,
+            relation,
             constant,
-            modulus,
+            modulus: modulus.map(|(m, _)| m),
             carry_out: raw.carry_out.as_ref().is_some_and(|c| *c.get_ref()),
+            exponent_bits,
             controlled: raw.controlled.as_ref().is_some_and(|c| *c.get_ref()),
             data,
             data_width,

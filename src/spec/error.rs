@@ -106,9 +106,18 @@ pub enum SpecErrorKind {
     WidthBelowModulus {
         /// The width.
         width: usize,
-        /// The modulus.
-        modulus: u64,
+        /// The modulus, in decimal.
+        modulus: String,
     },
+    /// An op name of the first schema, with the form that replaces it.
+    RenamedOp {
+        /// What was written.
+        old: String,
+        /// The keys that say it now.
+        new: &'static str,
+    },
+    /// `relation` names no relation.
+    UnknownRelation(String),
     /// The images of a permutation are not a bijection of the right size.
     Permutation(String),
     /// `op` names no arithmetic op.
@@ -177,7 +186,7 @@ impl fmt::Display for SpecErrorKind {
             },
             UnknownForm(x) => write!(f, "unknown oracle form '{x}'"),
             PhaseNeedsOneOutput => {
-                f.write_str("a phase oracle is a function spec with exactly one output")
+                f.write_str("a phase oracle is a function spec with exactly one output, or an arithmetic compare")
             }
             Empty(key) => write!(f, "'{key}' is empty"),
             BadName(n) => write!(f, "'{n}' is not a usable name"),
@@ -209,15 +218,18 @@ impl fmt::Display for SpecErrorKind {
             Negative(key) => write!(f, "'{key}' must be 0 or more"),
             NotANumber(key) => write!(
                 f,
-                "'{key}' must be a whole number from 0 to 2^64 - 1 (decimal, 0x hex or 0b binary)"
+                "'{key}' must be a whole number of at most 65,536 bits (a TOML integer, or a string in decimal, 0x hex or 0b binary)"
             ),
             OutOfRange { key, rule } => write!(f, "'{key}' {rule}"),
             DoesNotFit { what, bits } => write!(f, "{what} does not fit in {bits} bits"),
             WidthBelowModulus { width, modulus } => write!(
                 f,
-                "width {width} cannot hold {} (modulus {modulus} minus 1)",
-                modulus - 1
+                "width {width} cannot hold the modulus {modulus} minus 1"
             ),
+            RenamedOp { old, new } => {
+                write!(f, "op '{old}' is no longer a name of the schema; write {new}")
+            }
+            UnknownRelation(r) => write!(f, "unknown relation '{r}'"),
             UnknownOp { op, .. } => write!(f, "unknown op '{op}'"),
             KeyNotForOp { key, op } => write!(f, "'{key}' does not apply to op '{op}'"),
             NotARegister { name, registers } => write!(
@@ -261,6 +273,7 @@ impl ErrorKind for SpecErrorKind {
                 Some("names start with a letter or '_' and hold letters, digits and '_'".into())
             }
             UnknownOp { ops, .. } => Some(format!("op is one of {}", ops.join(", "))),
+            UnknownRelation(_) => Some("relation is one of <, <=, >, >=, ==, !=".into()),
             BadRegisterName(_) => Some(
                 "a register name starts with a lowercase letter, holds letters, digits and '_', and is not an OpenQASM word or standard gate".into(),
             ),

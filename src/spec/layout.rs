@@ -1,18 +1,25 @@
 //! The register layout each kind of spec promises: which registers a circuit
 //! for it has, in OpenQASM order, their sizes and roles.
 
-use super::{ArithOp, ArithSpec, FunctionSpec, Spec, SpecBody};
+use super::{bits_of, ArithOp, ArithSpec, FunctionSpec, Spec, SpecBody};
 use crate::circuit::layout::{Layout, Register, CARRY, CONTROL, INPUTS, OUTPUTS};
 use crate::circuit::Role;
 
 impl Spec {
-    /// The registers of a circuit for this spec (ancillae excluded).
+    /// The registers of a circuit for this spec (ancillae excluded); a
+    /// controlled spec's `ctrl[1]` first.
     pub fn layout(&self) -> Layout {
-        match &self.body {
+        let mut layout = match &self.body {
             SpecBody::Function(f) => f.layout(),
             SpecBody::Permutation(p) => permutation_layout(p.width()),
-            SpecBody::Arithmetic(a) => a.layout(),
+            SpecBody::Arithmetic(a) => return a.layout(),
+        };
+        if self.controlled {
+            layout
+                .0
+                .insert(0, Register::numbered(CONTROL, Role::Input, 1));
         }
+        layout
     }
 }
 
@@ -36,7 +43,16 @@ pub fn permutation_layout(width: usize) -> Layout {
 }
 
 impl ArithSpec {
-    /// `ctrl[1]` when controlled, `a`, then `b`, `y` or `cout` as the op has them.
+    /// `ctrl[1]` when controlled, then the op's registers:
+    ///
+    /// - `add`, `subtract`: `a`, `b` (changed), `cout` with `carry_out`; with
+    ///   `constant`, `a` alone (changed in place), then `cout`;
+    /// - `compare`: `a`, `b` (or `a` alone with `constant`), `y[1]`;
+    /// - `multiply`: `a`, `b`, `p[2w]`; with `constant`, `a`, `p[w + bits(c)]`;
+    ///   with `constant` and `modulus`, `x` (changed in place);
+    /// - `power`: `e[exponent_bits]`, `x` (changed in place);
+    /// - `weight`: `a`, `y[bits(w)]`;
+    /// - `lookup`: `a` (the address), `y[data_width]`.
     pub fn layout(&self) -> Layout {
         use ArithOp::*;
         let w = self.width;
@@ -44,26 +60,56 @@ impl ArithSpec {
         if self.controlled {
             regs.push(Register::numbered(CONTROL, Role::Input, 1));
         }
-        let a_role = match self.op {
-            AddConst | IncrementMod => Role::Data,
-            _ => Role::Input,
-        };
-        regs.push(Register::numbered("a", a_role, w));
+        let constant = self.constant.is_some();
         match self.op {
-            Add | Sub | AddMod => regs.push(Register::numbered("b", Role::Data, w)),
-            LessThan => regs.push(Register::numbered("b", Role::Input, w)),
-            _ => {}
-        }
-        match self.op {
-            LessThan | LessThanConst | EqualConst => {
-                regs.push(Register::numbered(OUTPUTS, Role::Output, 1))
+            Add | Subtract => {
+                if constant {
+                    regs.push(Register::numbered("a", Role::Data, w));
+                } else {
+                    regs.push(Register::numbered("a", Role::Input, w));
+                    regs.push(Register::numbered("b", Role::Data, w));
+                }
+                if self.carry_out {
+                    regs.push(Register::numbered(CARRY, Role::Output, 1));
+                }
             }
-            Lookup => regs.push(Register::numbered(OUTPUTS, Role::Output, self.data_width)),
-            _ => {}
-        }
-        if self.op == Add && self.carry_out {
-            regs.push(Register::numbered(CARRY, Role::Output, 1));
+            Compare => {
+                regs.push(Register::numbered("a", Role::Input, w));
+                if !constant {
+                    regs.push(Register::numbered("b", Role::Input, w));
+                }
+                regs.push(Register::numbered(OUTPUTS, Role::Output, 1));
+            }
+            Multiply => match (&self.constant, self.modulus.is_some()) {
+                (Some(_), true) => regs.push(Register::numbered("x", Role::Data, w)),
+                (Some(c), false) => {
+                    regs.push(Register::numbered("a", Role::Input, w));
+                    regs.push(Register::numbered("p", Role::Output, w + bits_of(c)));
+                }
+                (None, _) => {
+                    regs.push(Register::numbered("a", Role::Input, w));
+                    regs.push(Register::numbered("b", Role::Input, w));
+                    regs.push(Register::numbered("p", Role::Output, 2 * w));
+                }
+            },
+            Power => {
+                regs.push(Register::numbered("e", Role::Input, self.exponent_bits));
+                regs.push(Register::numbered("x", Role::Data, w));
+            }
+            Weight => {
+                regs.push(Register::numbered("a", Role::Input, w));
+                regs.push(Register::numbered(OUTPUTS, Role::Output, weight_bits(w)));
+            }
+            Lookup => {
+                regs.push(Register::numbered("a", Role::Input, w));
+                regs.push(Register::numbered(OUTPUTS, Role::Output, self.data_width));
+            }
         }
         Layout(regs)
     }
+}
+
+/// The bits of a popcount of `w` bits: bits(w).
+pub fn weight_bits(w: usize) -> usize {
+    (usize::BITS - w.leading_zeros()) as usize
 }

@@ -12,13 +12,15 @@ mod layout;
 mod netlist;
 mod raw;
 
+pub use arith::{inverse_mod, MAX_EXPONENT_BITS};
 pub use error::{SpecError, SpecErrorKind};
-pub use layout::permutation_layout;
+pub use layout::{permutation_layout, weight_bits};
 pub use netlist::{netlist_function, DesignIssue, FileReader, SpecLoadError};
 
 use crate::logic::{program, Dag, NodeId, Permutation, PermutationError, TruthTable};
 use crate::netlist::ReadLimits;
 use crate::source::Source;
+pub use num_bigint::BigUint;
 use raw::{RawArithmetic, RawFunction, RawNetlist, RawOracle, RawPermutation};
 use std::ops::Range;
 use toml::Spanned;
@@ -36,6 +38,9 @@ pub struct Spec {
     /// for the files written and read; the library works on the standard
     /// names (`x`, `y`, `anc`, `a`, ...) throughout.
     pub registers: Vec<(String, String)>,
+    /// `controlled = true`: `ctrl[1]` first, the map applies where it is 1
+    /// (arithmetic: also [`ArithSpec::controlled`]; other kinds: [`crate::synth::control`]).
+    pub controlled: bool,
 }
 
 impl Spec {
@@ -123,7 +128,9 @@ impl FunctionSpec {
     }
 }
 
-/// Arithmetic operations of the spec schema.
+/// Arithmetic operations of the spec schema: a few verbs whose keys combine
+/// (`constant`, `modulus`, `relation`, `carry_out`, `exponent_bits`,
+/// `controlled`).
 #[derive(
     Clone,
     Copy,
@@ -137,22 +144,21 @@ impl FunctionSpec {
 )]
 #[strum(serialize_all = "snake_case")]
 pub enum ArithOp {
-    /// `a, b -> a, (a + b) mod 2^w`.
+    /// `b = a + b`; with `constant`, `a = a + c` in place; with `modulus`,
+    /// mod N for inputs below N.
     Add,
-    /// `a, b -> a, (b - a) mod 2^w`.
-    Sub,
-    /// `a -> (a + constant) mod 2^w`.
-    AddConst,
-    /// `a, b, y -> a, b, y XOR (a < b)`.
-    LessThan,
-    /// `a, y -> a, y XOR (a < constant)`.
-    LessThanConst,
-    /// `a, y -> a, y XOR (a == constant)`.
-    EqualConst,
-    /// `a -> (a + 1) mod modulus` below the modulus.
-    IncrementMod,
-    /// `a, b -> a, (a + b) mod modulus` for `a, b < modulus`.
-    AddMod,
+    /// `b = b - a`; with `constant`, `a = a - c` in place; with `modulus`,
+    /// mod N for inputs below N.
+    Subtract,
+    /// `y ^= (a relation b)` or `y ^= (a relation c)`.
+    Compare,
+    /// `p ^= a * b` (`p[2w]`), `p ^= a * c` (`p[w + bits(c)]`), or with
+    /// `constant` and `modulus`, `x -> c * x mod N` in place.
+    Multiply,
+    /// `e, x -> e, x * c^e mod N`.
+    Power,
+    /// `y ^= popcount(a)`, `y[bits(w)]`.
+    Weight,
     /// `address, data -> address, data XOR table[address]`.
     Lookup,
 }
@@ -169,25 +175,98 @@ impl ArithOp {
     }
 }
 
+/// The relation of `op = "compare"`.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Hash, strum::EnumIter)]
+pub enum Relation {
+    /// `<`
+    Less,
+    /// `<=`
+    LessEq,
+    /// `>`
+    Greater,
+    /// `>=`
+    GreaterEq,
+    /// `==`
+    Equal,
+    /// `!=`
+    NotEqual,
+}
+
+impl Relation {
+    /// Every relation.
+    pub fn all() -> impl Iterator<Item = Relation> {
+        <Relation as strum::IntoEnumIterator>::iter()
+    }
+
+    /// As written in a spec.
+    pub fn symbol(self) -> &'static str {
+        match self {
+            Relation::Less => "<",
+            Relation::LessEq => "<=",
+            Relation::Greater => ">",
+            Relation::GreaterEq => ">=",
+            Relation::Equal => "==",
+            Relation::NotEqual => "!=",
+        }
+    }
+
+    /// The relation written `text`.
+    pub fn parse(text: &str) -> Option<Relation> {
+        Relation::all().find(|r| r.symbol() == text)
+    }
+}
+
 /// An arithmetic spec.
 #[derive(Clone, Debug, PartialEq, Eq)]
 pub struct ArithSpec {
     /// The operation.
     pub op: ArithOp,
-    /// Register width in bits (the address width for `lookup`).
+    /// Register width in bits: of `a` (and `b`), of `x` for the modular
+    /// multiply and `power`, the address width for `lookup`.
     pub width: usize,
-    /// `constant` for the `_const` ops.
-    pub constant: Option<u64>,
-    /// `modulus` for the `_mod` ops.
-    pub modulus: Option<u64>,
+    /// `relation` of `compare`.
+    pub relation: Option<Relation>,
+    /// `constant`, of any width.
+    pub constant: Option<BigUint>,
+    /// `modulus`, of any width.
+    pub modulus: Option<BigUint>,
     /// `carry_out` for `add`.
     pub carry_out: bool,
+    /// `exponent_bits` of `power` (0 for every other op).
+    pub exponent_bits: usize,
     /// `controlled`: a `ctrl[1]` register gates the whole map.
     pub controlled: bool,
     /// `data` words for `lookup`, one per address.
     pub data: Vec<u64>,
     /// `data_width` for `lookup`.
     pub data_width: usize,
+}
+
+impl ArithSpec {
+    /// Whether the map is promised only on register values below the
+    /// modulus (`add`/`subtract` with `modulus`, the modular multiply, `power`).
+    pub fn is_modular(&self) -> bool {
+        self.modulus.is_some()
+    }
+
+    /// The registers whose values must lie below the modulus (the domain
+    /// promise), by name.
+    pub fn below_modulus(&self) -> &'static [&'static str] {
+        if self.modulus.is_none() {
+            return &[];
+        }
+        match (self.op, self.constant.is_some()) {
+            (ArithOp::Add | ArithOp::Subtract, false) => &["a", "b"],
+            (ArithOp::Add | ArithOp::Subtract, true) => &["a"],
+            (ArithOp::Multiply | ArithOp::Power, _) => &["x"],
+            _ => &[],
+        }
+    }
+}
+
+/// The bits of `v`: 0 for 0.
+pub fn bits_of(v: &BigUint) -> usize {
+    v.bits() as usize
 }
 
 /// Most nodes the expressions of one spec may have, definitions included
@@ -306,6 +385,7 @@ pub fn parse_spec_with(
                 body: SpecBody::Function(v.function(&raw)?),
                 form,
                 registers: Vec::new(),
+                controlled: raw.controlled.is_some_and(|c| c.into_inner()),
             };
             spec.registers = v.registers(&raw.registers, &spec)?;
             Ok(spec)
@@ -318,6 +398,7 @@ pub fn parse_spec_with(
                 body: SpecBody::Permutation(v.permutation(&raw)?),
                 form,
                 registers: Vec::new(),
+                controlled: raw.controlled.is_some_and(|c| c.into_inner()),
             };
             spec.registers = v.registers(&raw.registers, &spec)?;
             Ok(spec)
@@ -328,12 +409,17 @@ pub fn parse_spec_with(
         }
         _ => {
             let raw: RawArithmetic = serde::Deserialize::deserialize(de).map_err(toml_error)?;
-            let form = v.form(&raw.oracle, None)?;
+            // A comparison has one output bit, so it may be a phase oracle.
+            let compare = raw.op.as_ref().is_some_and(|o| o.get_ref() == "compare");
+            let form = v.form(&raw.oracle, compare.then_some(1))?;
+            let arith = v.arithmetic(&raw)?;
+            let controlled = arith.controlled;
             let mut spec = Spec {
                 name: raw.name.as_ref().map(|n| n.get_ref().clone()),
-                body: SpecBody::Arithmetic(v.arithmetic(&raw)?),
+                body: SpecBody::Arithmetic(arith),
                 form,
                 registers: Vec::new(),
+                controlled,
             };
             spec.registers = v.registers(&raw.registers, &spec)?;
             Ok(spec)
@@ -468,124 +554,4 @@ impl Validator<'_> {
 }
 
 #[cfg(test)]
-mod tests {
-    use super::*;
-
-    fn err(text: &str) -> SpecError {
-        parse_spec("t.toml", text).unwrap_err()
-    }
-
-    fn at(e: &SpecError) -> (usize, usize) {
-        (e.location.line, e.location.column)
-    }
-
-    #[test]
-    fn design_example_parses() {
-        let s = parse_spec(
-            "t.toml",
-            r#"
-kind = "function"
-name = "greenhouse-vent"
-inputs = ["hot", "humid", "night"]
-outputs = ["vent", "fan"]
-
-[table]
-vent = "0x3e"
-
-[expr]
-fan = "hot & !night | humid ^ hot"
-"#,
-        )
-        .unwrap();
-        assert_eq!(s.name.as_deref(), Some("greenhouse-vent"));
-        let SpecBody::Function(f) = s.body else {
-            panic!("function kind")
-        };
-        assert_eq!(f.inputs, ["hot", "humid", "night"]);
-        assert_eq!(f.table(0).unwrap().to_hex(), "0x3e");
-        // hot & !night | (humid ^ hot), by precedence.
-        let fan = f.table(1).unwrap();
-        for i in 0..8 {
-            let (hot, humid, night) = (i & 1 == 1, i & 2 == 2, i & 4 == 4);
-            assert_eq!(fan.get(i), (hot && !night) || (humid ^ hot));
-        }
-    }
-
-    #[test]
-    fn constants_past_the_toml_integer_range() {
-        let s = parse_spec(
-            "t.toml",
-            "kind = \"arithmetic\"\nop = \"add_const\"\nwidth = 64\nconstant = \"0xffff_ffff_ffff_fffe\"\n",
-        )
-        .unwrap();
-        let SpecBody::Arithmetic(a) = s.body else {
-            panic!("arithmetic")
-        };
-        assert_eq!(a.constant, Some(u64::MAX - 1));
-        let e =
-            err("kind = \"arithmetic\"\nop = \"add_const\"\nwidth = 8\nconstant = \"twelve\"\n");
-        assert_eq!(at(&e), (4, 12), "{e}");
-        assert_eq!(e.kind, SpecErrorKind::NotANumber("constant"));
-        let e = err("kind = \"arithmetic\"\nop = \"add_const\"\nwidth = 8\nconstant = 300\n");
-        assert!(
-            matches!(e.kind, SpecErrorKind::DoesNotFit { bits: 8, .. }),
-            "{e}"
-        );
-    }
-
-    #[test]
-    fn definitions_resolve_in_any_order_and_cycles_are_refused() {
-        let s = parse_spec(
-            "t.toml",
-            "kind = \"function\"\ninputs = [\"a\", \"b\", \"c\"]\noutputs = [\"f\"]\n[let]\nz = \"y & c\"\ny = \"a ^ b\"\n[expr]\nf = \"z | !y\"\n",
-        )
-        .unwrap();
-        let SpecBody::Function(f) = s.body else {
-            panic!()
-        };
-        let t = f.table(0).unwrap();
-        for x in 0..8 {
-            let (a, b, c) = (x & 1 == 1, x & 2 == 2, x & 4 == 4);
-            assert_eq!(t.get(x), !(a ^ b) || c);
-        }
-        let e = err("kind = \"function\"\ninputs = [\"a\"]\noutputs = [\"f\"]\n[let]\np = \"q & a\"\nq = \"p\"\n[expr]\nf = \"p\"\n");
-        assert!(matches!(e.kind, SpecErrorKind::Cycle(_)), "{e}");
-        assert_eq!(e.location.line, 5);
-        let e = err("kind = \"function\"\ninputs = [\"a\"]\noutputs = [\"f\"]\n[let]\na = \"1\"\n[expr]\nf = \"a\"\n");
-        assert_eq!(e.kind, SpecErrorKind::NameTwice("a".into()));
-    }
-
-    #[test]
-    fn shared_definitions_count_once() {
-        // Doubling definitions: 2^25 nodes if substituted, 51 shared.
-        let mut text = String::from(
-            "kind = \"function\"\ninputs = [\"a\"]\noutputs = [\"f\"]\n[let]\nd0 = \"a\"\n",
-        );
-        for i in 1..26 {
-            text.push_str(&format!("d{i} = \"d{} ^ d{}\"\n", i - 1, i - 1));
-        }
-        text.push_str("[expr]\nf = \"d25 ^ a\"\n");
-        let s = parse_spec("t.toml", &text).unwrap();
-        let SpecBody::Function(f) = s.body else {
-            panic!()
-        };
-        assert!(f.dag.len() < 60, "{}", f.dag.len());
-        // d_i is 0 for i >= 1 (x ^ x), so f = a.
-        assert_eq!(f.table(0).unwrap().to_hex(), "0x2");
-    }
-
-    #[test]
-    fn locations_of_common_mistakes() {
-        let e = err(
-            "kind = \"function\"\ninputs = [\"a\"]\noutputs = [\"f\"]\n[expr]\nf = \"a & b\"\n",
-        );
-        assert_eq!(at(&e), (5, 10), "{e}");
-        let e = err("kind = \"permutation\"\nwidth = 2\nimages = [0, 1, 1, 3]\n");
-        assert_eq!(at(&e), (3, 17), "{e}");
-        let e = err("kind = \"permutation\"\nwidht = 2\n");
-        assert_eq!(at(&e).0, 2, "{e}");
-        assert!(matches!(e.kind, SpecErrorKind::UnknownKey { .. }), "{e}");
-        let e = err("kind = \"permutation\"\ninputs = [\"a\"]\n");
-        assert!(matches!(e.kind, SpecErrorKind::KeyNotForKind { .. }), "{e}");
-    }
-}
+mod tests;

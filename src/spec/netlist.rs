@@ -188,6 +188,7 @@ impl Validator<'_> {
             body: SpecBody::Function(self.netlist(raw, form, read, limits)?),
             form,
             registers: Vec::new(),
+            controlled: raw.controlled.as_ref().is_some_and(|c| *c.get_ref()),
         };
         spec.registers = self.registers(&raw.registers, &spec)?;
         Ok(spec)

@@ -28,6 +28,8 @@ pub struct RawFunction {
     pub oracle: Option<Spanned<RawOracle>>,
     /// `[registers]`: own names for the standard registers.
     pub registers: Option<Section>,
+    /// `controlled = true`: a `ctrl[1]` register gates the whole map.
+    pub controlled: Option<Spanned<bool>>,
     pub inputs: Option<Names>,
     pub outputs: Option<Names>,
     pub table: Option<Section>,
@@ -45,6 +47,8 @@ pub struct RawPermutation {
     pub oracle: Option<Spanned<RawOracle>>,
     /// `[registers]`: own names for the standard registers.
     pub registers: Option<Section>,
+    /// `controlled = true`: a `ctrl[1]` register gates the whole map.
+    pub controlled: Option<Spanned<bool>>,
     pub width: Option<Spanned<i64>>,
     pub images: Option<Spanned<Vec<Spanned<i64>>>>,
 }
@@ -60,9 +64,11 @@ pub struct RawArithmetic {
     pub registers: Option<Section>,
     pub op: Option<Spanned<String>>,
     pub width: Option<Spanned<i64>>,
+    pub relation: Option<Spanned<String>>,
     pub constant: Option<Spanned<Number>>,
     pub modulus: Option<Spanned<Number>>,
     pub carry_out: Option<Spanned<bool>>,
+    pub exponent_bits: Option<Spanned<i64>>,
     pub controlled: Option<Spanned<bool>>,
     pub data: Option<Spanned<Vec<Spanned<i64>>>>,
     pub data_width: Option<Spanned<i64>>,
@@ -77,6 +83,8 @@ pub struct RawNetlist {
     pub oracle: Option<Spanned<RawOracle>>,
     pub file: Option<Spanned<String>>,
     pub outputs: Option<Names>,
+    /// `controlled = true`: a `ctrl[1]` register gates the whole map.
+    pub controlled: Option<Spanned<bool>>,
     /// `[registers]`: own names for the standard registers.
     pub registers: Option<Section>,
 }

@@ -7,11 +7,13 @@
 mod arith;
 mod bennett;
 mod checkpoints;
+pub mod control;
 mod esop;
 mod esop_exact;
 mod exact;
 mod exorlink;
 mod hierarchical;
+mod linear;
 mod network;
 mod pebble;
 mod reed_muller;
@@ -19,7 +21,9 @@ mod transform;
 
 pub use arith::gidney::gidney_add;
 pub use arith::lookup::unary_lookup;
-pub use arith::{arith_lines, arithmetic, arithmetic_measured, Registers};
+pub use arith::{
+    arith_images, arith_lines, arithmetic, arithmetic_measured, Registers, TABLE_MAX_LINES,
+};
 pub use bennett::{bennett, bennett_counts, bennett_xag, xag_network, PEBBLE_SAT_MAX_NODES};
 pub use esop::{
     esop_circuit, esop_counted, esop_of, minimize_tables, EsopWork, EXORLINK_MAX_TERMS,
@@ -36,6 +40,7 @@ pub use transform::{
 
 use crate::circuit::Circuit;
 use crate::limit::{Limit, Stop};
+use crate::logic::Permutation;
 use crate::progress::Progress;
 use crate::spec::{Spec, SpecBody};
 use std::fmt;
@@ -98,6 +103,11 @@ pub enum Method {
     /// Structural generators for arithmetic specs.
     #[strum(message = "arithmetic: ripple-carry (MAJ/UMA) and carry-chain generators, any width")]
     Structural,
+    /// Affine permutations by Gaussian elimination into CNOTs and NOTs.
+    #[strum(
+        message = "permutations that are affine over GF(2) (x -> A x XOR b): Gaussian elimination, CNOTs and NOTs only"
+    )]
+    Linear,
 }
 
 impl Method {
@@ -254,8 +264,40 @@ pub fn synthesize_in(
 }
 
 /// Synthesizes a circuit of MCT gates (not yet lowered) for `spec` with one
-/// method, reporting long searches to `progress`.
+/// method, reporting long searches to `progress`. A controlled function or
+/// permutation spec is synthesized without its control, within one qubit
+/// less, and the control is added to the effect gates ([`control`]).
 pub fn synthesize(
+    spec: &Spec,
+    method: Method,
+    limits: &SynthLimits,
+    progress: &dyn Progress,
+) -> Result<Synthesis, SynthError> {
+    if !spec.controlled || matches!(spec.body, SpecBody::Arithmetic(_)) {
+        return synthesize_plain(spec, method, limits, progress);
+    }
+    let inner = SynthLimits {
+        max_qubits: limits.max_qubits.map(|q| q.saturating_sub(1)),
+        ..*limits
+    };
+    let mut s = synthesize_plain(spec, method, &inner, progress).map_err(|e| match e {
+        SynthError::Budget { budget, needed } => SynthError::Budget {
+            budget: budget + 1,
+            needed: needed + 1,
+        },
+        e => e,
+    })?;
+    let k = control::add_control(&s.circuit);
+    s.notes.push(format!(
+        "controlled: {} gate(s) take the control; {} compute/uncompute gate(s) on ancillae need none",
+        k.controlled, k.left
+    ));
+    s.circuit = k.circuit;
+    Ok(s)
+}
+
+/// [`synthesize`] of the spec's map without its control.
+fn synthesize_plain(
     spec: &Spec,
     method: Method,
     limits: &SynthLimits,
@@ -293,6 +335,15 @@ pub fn synthesize(
             Ok(c.into())
         }
         (SpecBody::Permutation(p), Method::Exact) => exact::permutation(p, limits, progress),
+        (SpecBody::Permutation(p), Method::Linear) => {
+            let c = linear::linear(p).ok_or(SynthError::NotApplicable {
+                method: method.name(),
+                kind: "permutation",
+                hint: "it takes affine permutations (x -> A x XOR b over GF(2)), and this one is not",
+            })?;
+            check_gates(&c, limits)?;
+            Ok(c.into())
+        }
         (SpecBody::Function(f), Method::Exact) => exact::function(f, limits, progress),
         (SpecBody::Function(f), Method::Transform | Method::TransformBidir) => {
             let c = transform_function(f, method == Method::TransformBidir)?;
@@ -319,10 +370,30 @@ pub fn synthesize(
             kind: "permutation",
             hint: "use transform, transform-bidir or auto",
         }),
+        (SpecBody::Arithmetic(a), Method::Transform | Method::TransformBidir) => {
+            // The same map as a permutation of the registers' lines.
+            let images = arith_images(a).ok_or(SynthError::NotApplicable {
+                method: method.name(),
+                kind: "arithmetic",
+                hint: "a table of the map takes at most 16 register lines; use structural",
+            })?;
+            let p = Permutation::new(images.len().trailing_zeros() as usize, images)
+                .expect("an arithmetic map is a bijection of its lines");
+            let t = transform_with(&p, method == Method::TransformBidir);
+            let mut c = Circuit::new(arith_lines(a).0);
+            while c.width() < t.width() {
+                c.add_ancilla();
+            }
+            for g in t.gates() {
+                c.push(g.clone());
+            }
+            check_gates(&c, limits)?;
+            Ok(c.into())
+        }
         (SpecBody::Arithmetic(_), m) => Err(SynthError::NotApplicable {
             method: m.name(),
             kind: "arithmetic",
-            hint: "use structural or auto",
+            hint: "use structural, transform, transform-bidir or auto",
         }),
     }
 }

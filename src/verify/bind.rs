@@ -3,7 +3,7 @@
 use super::VerifyError;
 use crate::circuit::layout::{ANCILLAE, OUTPUTS};
 use crate::circuit::Circuit;
-use crate::spec::{OracleForm, Spec};
+use crate::spec::{OracleForm, Spec, SpecBody};
 
 pub(super) struct Binding {
     /// Circuit line of each free state bit.
@@ -51,9 +51,28 @@ pub(super) fn bind(circuit: &Circuit, expect: &[(&str, usize)]) -> Result<Bindin
     })
 }
 
+/// Whether the spec is a controlled function or permutation, whose control
+/// the verifier models itself (arithmetic references take theirs).
+pub(super) fn outer_control(spec: &Spec) -> bool {
+    spec.controlled && !matches!(spec.body, SpecBody::Arithmetic(_))
+}
+
+/// The registers the verifier binds, in state-bit order: the spec's layout,
+/// but a controlled function's or permutation's `ctrl` last, so that the
+/// map's own lines keep the low state bits and `ctrl` is the top one.
+pub(super) fn expected_registers(spec: &Spec) -> Vec<(&'static str, usize)> {
+    let mut regs = spec.layout().sizes();
+    if outer_control(spec) {
+        let ctrl = regs.remove(0);
+        debug_assert_eq!(ctrl.0, crate::circuit::layout::CONTROL);
+        regs.push(ctrl);
+    }
+    regs
+}
+
 /// Number of free lines (inputs and targets) once the circuit is bound to the spec.
 pub fn free_lines(circuit: &Circuit, spec: &Spec) -> Result<u32, VerifyError> {
-    Ok(bind(circuit, &spec.layout().sizes())?.free.len() as u32)
+    Ok(bind(circuit, &expected_registers(spec))?.free.len() as u32)
 }
 
 /// What differs between the oracle form the spec asks for and the form of

@@ -15,8 +15,11 @@ const W: usize = BLOCK_WORDS;
 /// The number of inputs `x` of `0 .. 2^n` with `f(x) = 1`, for a function
 /// spec with one output (an xor or a phase oracle of a predicate); `Ok(None)`
 /// for any other spec. A table's ones are counted; an expression is evaluated
-/// on every input, so `2^n` must be within `max_states` (else
-/// [`VerifyError::TooLarge`], nothing counted).
+/// on every input when `2^n` is within `max_states`, and past it its models
+/// are counted ([`super::count_models`], within
+/// [`super::MODEL_COUNT_MAX_NODES`] nodes and
+/// [`super::MODEL_COUNT_MAX_WORK`]; else [`VerifyError::TooLarge`], nothing
+/// counted).
 pub fn count_marked(
     spec: &Spec,
     max_states: u64,
@@ -30,13 +33,31 @@ pub fn count_marked(
     };
     let n = f.inputs.len() as u32;
     // A table holds its every entry already; an expression is evaluated on
-    // every input, within the budget.
+    // every input within the budget, and its models counted past it.
     let table = matches!(out.def, OutputDef::Table(_));
+    let too_large = VerifyError::TooLarge {
+        bits: n,
+        limit: max_states,
+    };
+    if let (false, OutputDef::Expr(root)) = (n < 63 && (1u64 << n) <= max_states, &out.def) {
+        if n >= 128 {
+            return Err(too_large);
+        }
+        let cancelled = || progress.cancelled();
+        return match super::models::count_models(
+            &nodes_of(&f.dag),
+            *root,
+            n,
+            max_states,
+            &cancelled,
+        ) {
+            Ok(m) => u64::try_from(m).map(Some).map_err(|_| too_large),
+            Err(super::models::CountStop::Cancelled) => Err(VerifyError::Cancelled),
+            Err(_) => Err(too_large),
+        };
+    }
     if n >= 63 || (!table && (1u64 << n) > max_states) {
-        return Err(VerifyError::TooLarge {
-            bits: n,
-            limit: max_states,
-        });
+        return Err(too_large);
     }
     let inputs = 1u64 << n;
     // The states of the last word that are inputs (all 64 from 6 inputs on).

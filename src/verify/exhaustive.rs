@@ -48,7 +48,7 @@ pub(super) fn verify_words(
     first: u64,
     end: u64,
 ) -> Result<Verdict, VerifyError> {
-    let layout = spec.layout().sizes();
+    let layout = super::bind::expected_registers(spec);
     let binding = bind(circuit, &layout)?;
     if let Some(problem) = super::bind::form_mismatch(circuit, spec) {
         return Ok(Verdict::form_refuted(problem));
@@ -111,6 +111,7 @@ pub(super) fn verify_words(
         .map_err(|e| VerifyError::Binding(e.to_string()))?;
     }
     let checker = Checker {
+        controlled: super::bind::outer_control(spec),
         circuit,
         width: circuit.width(),
         program,
@@ -126,9 +127,16 @@ pub(super) fn verify_words(
     let checked = AtomicU64::new(0);
     // A cancelled block is `Some(Err(()))`, so that the search ends there as
     // at a failure instead of passing over every remaining block.
-    let found = (lo..hi)
+    // Blocks go to threads in runs of about 2^20 gate x word operations, so a
+    // short circuit does not pay the scheduler once per 4,096 states.
+    let per_block = (circuit.gates().len() + 2 * circuit.width()).max(1) * W;
+    let run = (1usize << 20).div_ceil(per_block).clamp(1, 64);
+    // Block numbers fit a usize: the state space is at most 2^63 states.
+    let found = (lo as usize..hi as usize)
         .into_par_iter()
+        .with_min_len(run)
         .map_init(Work::default, |work, b| {
+            let b = b as u64;
             if progress.cancelled() {
                 return Some(Err(()));
             }
@@ -175,6 +183,9 @@ struct Work {
 }
 
 struct Checker<'a> {
+    /// A controlled function or permutation: `ctrl` is the last free line,
+    /// and the map applies where it is 1.
+    controlled: bool,
     circuit: &'a Circuit,
     width: usize,
     program: GateProgram,
@@ -242,24 +253,28 @@ impl Checker<'_> {
                     }
                     out.push(row);
                 }
+                self.blend_control(inputs, out);
                 care
             }
             Model::Permutation { images } => {
                 let out = expected;
                 out.clear();
-                out.resize(inputs.len(), [0; W]);
+                let lines = inputs.len() - self.controlled as usize;
+                out.resize(lines, [0; W]);
+                let mask = (images.len() - 1) as u64;
                 for i in 0..W {
                     for k in 0..64u64 {
                         let s = (base + i as u64) * 64 + k;
                         if s >= self.states {
                             break;
                         }
-                        let img = images[s as usize];
+                        let img = images[(s & mask) as usize];
                         for (j, o) in out.iter_mut().enumerate() {
                             o[i] |= ((img >> j) & 1) << k;
                         }
                     }
                 }
+                self.blend_control(inputs, out);
                 care
             }
             Model::Arithmetic { spec, layout } => {
@@ -270,6 +285,22 @@ impl Checker<'_> {
                 care
             }
         }
+    }
+
+    /// For a controlled spec (`ctrl` the last free line, absent from `out`
+    /// so far): the map where `ctrl` is 1, the input where it is 0, and
+    /// `ctrl` itself unchanged.
+    fn blend_control(&self, inputs: &[[u64; W]], out: &mut Vec<[u64; W]>) {
+        if !self.controlled {
+            return;
+        }
+        let ctrl = inputs[inputs.len() - 1];
+        for (o, x) in out.iter_mut().zip(inputs) {
+            for i in 0..W {
+                o[i] = (o[i] & ctrl[i]) | (x[i] & !ctrl[i]);
+            }
+        }
+        out.push(ctrl);
     }
 
     /// The arithmetic reference one state at a time, for the ops the
@@ -336,6 +367,19 @@ impl Checker<'_> {
             .expect("the program was built for this width");
         let care = self.expected(base, work);
         let expected = &work.expected;
+        // Every line's difference ORed into one row, line by line (whole
+        // rows at a time, so the loops vectorize), then the words in order.
+        let mut bad = unheld;
+        for &a in &self.binding.ancillae {
+            for (b, v) in bad.iter_mut().zip(&rows[a]) {
+                *b |= v;
+            }
+        }
+        for (&line, e) in self.binding.free.iter().zip(expected.iter()) {
+            for ((b, v), x) in bad.iter_mut().zip(&rows[line]).zip(e) {
+                *b |= v ^ x;
+            }
+        }
         let mut count = 0u64;
         let mut failed = None;
         let valid_last = if self.states < 64 {
@@ -348,18 +392,10 @@ impl Checker<'_> {
             if word < first || word >= end {
                 continue;
             }
-            let mut bad = unheld[i];
-            for &a in &self.binding.ancillae {
-                bad |= rows[a][i];
-            }
-            for (&line, e) in self.binding.free.iter().zip(expected.iter()) {
-                bad |= rows[line][i] ^ e[i];
-            }
             let mask = valid_last & care[i];
-            bad &= mask;
             count += mask.count_ones() as u64;
-            if bad != 0 {
-                failed = Some(word * 64 + bad.trailing_zeros() as u64);
+            if bad[i] & mask != 0 {
+                failed = Some(word * 64 + (bad[i] & mask).trailing_zeros() as u64);
                 break;
             }
         }

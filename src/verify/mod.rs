@@ -17,6 +17,7 @@ mod count;
 mod eval;
 mod exhaustive;
 mod kernel;
+mod models;
 mod program;
 mod reference;
 mod ripple;
@@ -27,6 +28,7 @@ mod verdict;
 
 pub use bind::free_lines;
 pub use count::count_marked;
+pub use models::{count_models, CountStop, MODEL_COUNT_MAX_NODES, MODEL_COUNT_MAX_WORK};
 pub use sat::{circuits_equivalent, sat_equivalence, SatError, SatOutcome, SAT_MAX_TABLE_INPUTS};
 pub use shard::{
     fingerprint, merge_shards, verify_shard, ShardError, ShardResult, MAX_SHARDS, SHARD_FORMAT,

@@ -4,7 +4,8 @@ use super::kernel::Dispatch;
 use super::program::WordProgram;
 use super::ripple;
 use super::BLOCK_WORDS as W;
-use crate::spec::{ArithOp, ArithSpec, Spec, SpecBody};
+use crate::spec::{ArithOp, ArithSpec, BigUint, Relation, Spec, SpecBody};
+use num_traits::{One, ToPrimitive};
 
 /// One output's reference.
 pub(super) enum Reference<'a> {
@@ -32,6 +33,25 @@ pub(super) enum Model<'a> {
     },
 }
 
+/// A constant of the spec as a machine word; the exhaustive route's
+/// registers are at most 62 bits, so every constant that reaches it fits.
+fn small(v: &Option<BigUint>, default: u128) -> u128 {
+    v.as_ref()
+        .map_or(default, |x| x.to_u128().unwrap_or(u128::MAX))
+}
+
+/// `base^e mod n` by square-and-multiply from the top bit of `e`.
+fn pow_mod(base: u128, e: u64, n: u128) -> u128 {
+    let mut r = 1 % n;
+    for i in (0..64).rev() {
+        r = r * r % n;
+        if (e >> i) & 1 == 1 {
+            r = r * (base % n) % n;
+        }
+    }
+    r
+}
+
 /// The op on register values `v` (in layout order), into `out`; false when
 /// the input is outside the op's domain. Registers are at most 62 bits wide
 /// here (the exhaustive route's limit).
@@ -44,37 +64,81 @@ pub(super) fn arithmetic_reference(s: &ArithSpec, v: &[u64], out: &mut [u64]) ->
     };
     let w = s.width as u32;
     let mask = |x: u128| (x & ((1u128 << w) - 1)) as u64;
-    let k = s.constant.unwrap_or(0) as u128;
-    let n = s.modulus.unwrap_or(1) as u128;
+    let k = small(&s.constant, 0);
+    let n = small(&s.modulus, 1);
+    let constant = s.constant.is_some();
+    let modular = s.modulus.is_some();
     let a = v[base] as u128;
-    if s.op == ArithOp::AddMod && (a >= n || v[base + 1] as u128 >= n) {
+    // The domain promise: the registers of a modular op hold values below n.
+    let inside = match (s.op, modular, constant) {
+        (ArithOp::Add | ArithOp::Subtract, true, false) => a < n && (v[base + 1] as u128) < n,
+        (ArithOp::Add | ArithOp::Subtract, true, true) => a < n,
+        (ArithOp::Multiply, true, _) => a < n,
+        (ArithOp::Power, _, _) => (v[base + 1] as u128) < n,
+        _ => true,
+    };
+    if !inside {
         return false;
     }
     if !ctrl {
         return true;
     }
+    let sub = s.op == ArithOp::Subtract;
     match s.op {
-        ArithOp::Add => {
-            let b = v[base + 1] as u128;
-            out[base + 1] = mask(a + b);
-            if s.carry_out {
-                out[base + 2] ^= ((a + b) >> w) as u64;
+        ArithOp::Add | ArithOp::Subtract => match (modular, constant) {
+            (false, false) => {
+                let b = v[base + 1] as u128;
+                if sub {
+                    out[base + 1] = mask(b + (1u128 << w) - a);
+                } else {
+                    out[base + 1] = mask(a + b);
+                    if s.carry_out {
+                        out[base + 2] ^= ((a + b) >> w) as u64;
+                    }
+                }
             }
-        }
-        ArithOp::Sub => {
-            let b = v[base + 1] as u128;
-            out[base + 1] = mask(b + (1u128 << w) - a);
-        }
-        ArithOp::AddConst => out[base] = mask(a + k),
-        ArithOp::LessThan => out[base + 2] ^= (a < v[base + 1] as u128) as u64,
-        ArithOp::LessThanConst => out[base + 1] ^= (a < k) as u64,
-        ArithOp::EqualConst => out[base + 1] ^= (a == k) as u64,
-        ArithOp::IncrementMod => {
-            if a < n {
-                out[base] = ((a + 1) % n) as u64;
+            (false, true) => {
+                if sub {
+                    out[base] = mask(a + (1u128 << w) - k);
+                } else {
+                    out[base] = mask(a + k);
+                    if s.carry_out {
+                        out[base + 1] ^= ((a + k) >> w) as u64;
+                    }
+                }
             }
+            (true, false) => {
+                let b = v[base + 1] as u128;
+                out[base + 1] = if sub { (b + n - a) % n } else { (a + b) % n } as u64;
+            }
+            (true, true) => out[base] = if sub { (a + n - k) % n } else { (a + k) % n } as u64,
+        },
+        ArithOp::Compare => {
+            let (rhs, y) = if constant {
+                (k, base + 1)
+            } else {
+                (v[base + 1] as u128, base + 2)
+            };
+            let holds = match s.relation.expect("compare has a relation") {
+                Relation::Less => a < rhs,
+                Relation::LessEq => a <= rhs,
+                Relation::Greater => a > rhs,
+                Relation::GreaterEq => a >= rhs,
+                Relation::Equal => a == rhs,
+                Relation::NotEqual => a != rhs,
+            };
+            out[y] ^= holds as u64;
         }
-        ArithOp::AddMod => out[base + 1] = ((a + v[base + 1] as u128) % n) as u64,
+        ArithOp::Multiply => match (modular, constant) {
+            (true, _) => out[base] = (k * a % n) as u64,
+            (false, true) => out[base + 1] ^= (a * k) as u64,
+            (false, false) => out[base + 2] ^= (a * v[base + 1] as u128) as u64,
+        },
+        ArithOp::Power => {
+            let x = v[base + 1] as u128;
+            out[base + 1] = (x * pow_mod(k, v[base], n) % n) as u64;
+        }
+        ArithOp::Weight => out[base + 1] ^= v[base].count_ones() as u64,
         ArithOp::Lookup => out[base + 1] ^= s.data[a as usize],
     }
     true
@@ -92,9 +156,24 @@ pub(super) fn sliced(
     temp: &mut Vec<[u64; W]>,
     care: &mut [u64; W],
 ) -> bool {
-    if s.op == ArithOp::Lookup {
-        return false;
-    }
+    // The cases with a bit-sliced reference; the rest go state by state.
+    let constant = s.constant.is_some();
+    let modular = s.modulus.is_some();
+    let one = s.constant.as_ref().is_some_and(|c| c.is_one());
+    let case = match (s.op, modular, constant) {
+        (ArithOp::Add, false, false) => Sliced::Add,
+        (ArithOp::Subtract, false, false) => Sliced::Sub,
+        (ArithOp::Add | ArithOp::Subtract, false, true) if !s.carry_out => Sliced::AddConst,
+        (ArithOp::Add, true, true) if one => Sliced::IncrementMod,
+        (ArithOp::Add, true, false) => Sliced::AddMod,
+        (ArithOp::Compare, _, c) => match (s.relation, c) {
+            (Some(Relation::Less), false) => Sliced::LessThan,
+            (Some(Relation::Less), true) => Sliced::LessThanConst,
+            (Some(Relation::Equal), true) => Sliced::EqualConst,
+            _ => return false,
+        },
+        _ => return false,
+    };
     let w = s.width;
     let c = s.controlled as usize;
     let a = &inputs[c..c + w];
@@ -102,11 +181,15 @@ pub(super) fn sliced(
     out.extend_from_slice(inputs);
     temp.clear();
     temp.resize(w, [0; W]);
-    let k = s.constant.unwrap_or(0) as u128;
-    let n = s.modulus.unwrap_or(1) as u128;
+    let mut k = small(&s.constant, 0);
+    if s.op == ArithOp::Subtract && case == Sliced::AddConst {
+        // a - k = a + (2^w - k) mod 2^w.
+        k = ((1u128 << w) - k) % (1u128 << w);
+    }
+    let n = small(&s.modulus, 1);
     let mut flag = [0u64; W];
-    let ok = match s.op {
-        ArithOp::Add => {
+    let ok = match case {
+        Sliced::Add => {
             let b = &inputs[c + w..c + 2 * w];
             let ok = ripple::add::<W>(d, a, b, temp, &mut flag).is_ok();
             out[c + w..c + 2 * w].copy_from_slice(temp);
@@ -115,39 +198,45 @@ pub(super) fn sliced(
             }
             ok
         }
-        ArithOp::Sub => {
+        Sliced::Sub => {
             let b = &inputs[c + w..c + 2 * w];
             let ok = ripple::subtract::<W>(d, b, a, temp, &mut flag).is_ok();
             out[c + w..c + 2 * w].copy_from_slice(temp);
             ok
         }
-        ArithOp::AddConst => {
+        Sliced::AddConst => {
             let ok = ripple::add_const::<W>(d, a, k, temp, &mut flag).is_ok();
             out[c..c + w].copy_from_slice(temp);
             ok
         }
-        ArithOp::LessThan => {
+        Sliced::LessThan => {
             let b = &inputs[c + w..c + 2 * w];
             let ok = ripple::less_than::<W>(d, a, b, &mut flag).is_ok();
             xor_into(&mut out[c + 2 * w], &flag);
             ok
         }
-        ArithOp::LessThanConst => {
+        Sliced::LessThanConst => {
             ripple::less_than_const::<W>(d, a, k, &mut flag);
             xor_into(&mut out[c + w], &flag);
             true
         }
-        ArithOp::EqualConst => {
+        Sliced::EqualConst => {
             ripple::equal_const::<W>(d, a, k, &mut flag);
             xor_into(&mut out[c + w], &flag);
             true
         }
-        ArithOp::IncrementMod => {
+        Sliced::IncrementMod => {
             let ok = ripple::increment_mod::<W>(d, a, n, temp).is_ok();
             out[c..c + w].copy_from_slice(temp);
+            // The promise of a modular op: a < n.
+            let mut a_in = [0u64; W];
+            ripple::less_than_const::<W>(d, a, n, &mut a_in);
+            for i in 0..W {
+                care[i] &= a_in[i];
+            }
             ok
         }
-        ArithOp::AddMod => {
+        Sliced::AddMod => {
             let b = &inputs[c + w..c + 2 * w];
             let ok = ripple::add_mod::<W>(d, a, b, n, temp).is_ok();
             out[c + w..c + 2 * w].copy_from_slice(temp);
@@ -159,7 +248,6 @@ pub(super) fn sliced(
             }
             ok
         }
-        ArithOp::Lookup => false,
     };
     if s.controlled {
         // The op where the control is 1, the identity where it is 0.
@@ -173,6 +261,19 @@ pub(super) fn sliced(
     ok
 }
 
+/// The ops with a bit-sliced reference.
+#[derive(Clone, Copy, PartialEq, Eq)]
+enum Sliced {
+    Add,
+    Sub,
+    AddConst,
+    LessThan,
+    LessThanConst,
+    EqualConst,
+    IncrementMod,
+    AddMod,
+}
+
 fn xor_into(row: &mut [u64; W], with: &[u64; W]) {
     for (r, x) in row.iter_mut().zip(with) {
         *r ^= x;
@@ -180,33 +281,144 @@ fn xor_into(row: &mut [u64; W], with: &[u64; W]) {
 }
 
 /// How many of the basis states `[first, end)` (numbered by the free lines,
-/// `bits` of them) lie inside the spec's domain: every state, but for
-/// `add_mod`, whose promise is `a, b < modulus`.
+/// `bits` of them) lie inside the spec's domain: every state, but for the
+/// modular ops, whose promise is that their registers hold values below the
+/// modulus.
 pub(super) fn states_inside_domain(spec: &Spec, bits: u32, first: u64, end: u64) -> u64 {
     let SpecBody::Arithmetic(s) = &spec.body else {
         return end - first;
     };
-    if s.op != ArithOp::AddMod {
+    let promised = s.below_modulus();
+    if promised.is_empty() {
         return end - first;
     }
-    let c = s.controlled as u32;
-    let w = s.width as u32;
-    debug_assert_eq!(bits, c + 2 * w);
-    let n = s.modulus.unwrap_or(2) as u128;
-    // States below x with a < n and b < n, for the layout ctrl, a, b.
+    let n = small(&s.modulus, 2);
+    // (width, limit) of each register, lowest state bits first.
+    let regs: Vec<(u32, u128)> = s
+        .layout()
+        .sizes()
+        .iter()
+        .map(|&(name, size)| {
+            let size = size as u32;
+            let limit = if promised.contains(&name) {
+                n.min(1u128 << size)
+            } else {
+                1u128 << size
+            };
+            (size, limit)
+        })
+        .collect();
+    debug_assert_eq!(bits, regs.iter().map(|r| r.0).sum::<u32>());
+    // States below x whose every register is below its limit: digit by
+    // digit from the most significant register.
     let below = |x: u64| -> u128 {
         let x = x as u128;
-        let low = 1u128 << c;
-        let (xl, t) = (x % low, x / low);
-        let (xa, xb) = (t % (1u128 << w), t >> w);
-        let mut count = xb.min(n) * n * low;
-        if xb < n {
-            count += xa.min(n) * low;
-            if xa < n {
-                count += xl;
+        let mut shift: u32 = regs.iter().map(|r| r.0).sum();
+        let mut count = 0u128;
+        for (i, &(size, limit)) in regs.iter().enumerate().rev() {
+            shift -= size;
+            // The top register's digit may be 2^size at the end of the range.
+            let digit = if i + 1 == regs.len() {
+                x >> shift
+            } else {
+                (x >> shift) & ((1u128 << size) - 1)
+            };
+            let lower: u128 = regs[..i].iter().map(|r| r.1).product();
+            count += digit.min(limit) * lower;
+            if digit >= limit {
+                return count;
             }
         }
         count
     };
     (below(end) - below(first)) as u64
+}
+
+/// The op on register values of any width (in layout order), by the
+/// arithmetic of `num-bigint`; `None` outside the op's domain. The SAT route
+/// checks its counterexamples with it.
+pub(super) fn big_reference(s: &ArithSpec, v: &[BigUint]) -> Option<Vec<BigUint>> {
+    let mut out = v.to_vec();
+    let (ctrl, base) = if s.controlled {
+        (v[0].is_one(), 1)
+    } else {
+        (true, 0)
+    };
+    let zero = BigUint::default();
+    let one = BigUint::one();
+    let w = s.width;
+    let full = &one << w;
+    let k = s.constant.as_ref().unwrap_or(&zero);
+    let n = s.modulus.as_ref().unwrap_or(&one);
+    let constant = s.constant.is_some();
+    let modular = s.modulus.is_some();
+    let a = &v[base];
+    let inside = match (s.op, modular, constant) {
+        (ArithOp::Add | ArithOp::Subtract, true, false) => a < n && &v[base + 1] < n,
+        (ArithOp::Add | ArithOp::Subtract, true, true) | (ArithOp::Multiply, true, _) => a < n,
+        (ArithOp::Power, _, _) => &v[base + 1] < n,
+        _ => true,
+    };
+    if !inside {
+        return None;
+    }
+    if !ctrl {
+        return Some(out);
+    }
+    let sub = s.op == ArithOp::Subtract;
+    let xor = |x: &BigUint, y: &BigUint| x ^ y;
+    match s.op {
+        ArithOp::Add | ArithOp::Subtract => {
+            let (target, addend) = if constant {
+                (base, k.clone())
+            } else {
+                (base + 1, a.clone())
+            };
+            let t = &v[target];
+            if modular {
+                out[target] = if sub {
+                    (t + n - &addend) % n
+                } else {
+                    (t + &addend) % n
+                };
+            } else if sub {
+                out[target] = (t + &full - &addend) % &full;
+            } else {
+                let sum = t + &addend;
+                out[target] = &sum % &full;
+                if s.carry_out {
+                    let c = &sum >> w;
+                    out[target + 1] = xor(&v[target + 1], &c);
+                }
+            }
+        }
+        ArithOp::Compare => {
+            let (rhs, y) = if constant {
+                (k.clone(), base + 1)
+            } else {
+                (v[base + 1].clone(), base + 2)
+            };
+            let holds = match s.relation? {
+                Relation::Less => *a < rhs,
+                Relation::LessEq => *a <= rhs,
+                Relation::Greater => *a > rhs,
+                Relation::GreaterEq => *a >= rhs,
+                Relation::Equal => *a == rhs,
+                Relation::NotEqual => *a != rhs,
+            };
+            out[y] = xor(&v[y], &BigUint::from(holds as u32));
+        }
+        ArithOp::Multiply => match (modular, constant) {
+            (true, _) => out[base] = k * a % n,
+            (false, true) => out[base + 1] = xor(&v[base + 1], &(a * k)),
+            (false, false) => out[base + 2] = xor(&v[base + 2], &(a * &v[base + 1])),
+        },
+        ArithOp::Power => out[base + 1] = &v[base + 1] * k.modpow(&v[base], n) % n,
+        ArithOp::Weight => out[base + 1] = xor(&v[base + 1], &BigUint::from(a.count_ones())),
+        ArithOp::Lookup => {
+            let addr = a.to_usize()?;
+            out[base + 1] = xor(&v[base + 1], &BigUint::from(*s.data.get(addr)?));
+        }
+    }
+    Some(out)
 }

@@ -24,7 +24,7 @@ use crate::circuit::layout::ANCILLAE;
 use crate::circuit::Circuit;
 use crate::logic::{Dag, NodeId, Term};
 use crate::progress::{Event, Progress, Task};
-use crate::spec::{ArithOp, ArithSpec, OutputDef, Spec, SpecBody};
+use crate::spec::{ArithOp, ArithSpec, BigUint, OutputDef, Relation, Spec, SpecBody};
 use std::collections::HashMap;
 use std::time::Duration;
 
@@ -261,11 +261,6 @@ impl<'a> Cnf<'a> {
         let t = self.truth;
         self.add(x, &ny, t).1
     }
-    fn constant_bits(&self, k: u64, w: usize) -> Vec<i32> {
-        (0..w)
-            .map(|i| self.constant(i < 64 && (k >> i) & 1 == 1))
-            .collect()
-    }
     fn equal(&mut self, x: &[i32], y: &[i32]) -> i32 {
         let diffs: Vec<i32> = x.iter().zip(y).map(|(&a, &b)| self.xor(a, b)).collect();
         let any = self.or(&diffs);
@@ -401,6 +396,19 @@ fn expected(cnf: &mut Cnf, spec: &Spec, free: &[i32]) -> Result<(Vec<i32>, Vec<i
         }
         SpecBody::Arithmetic(a) => arithmetic(cnf, a, free, &mut domain)?,
     };
+    if !super::bind::outer_control(spec) {
+        return Ok((out, domain));
+    }
+    // A controlled function or permutation: `ctrl` is the last free line;
+    // the map where it is 1, every line as it was where it is 0.
+    let ctrl = free[free.len() - 1];
+    let mut out: Vec<i32> = out
+        .iter()
+        .zip(free)
+        .map(|(&f, &x)| cnf.mux(ctrl, f, x))
+        .collect();
+    out.truncate(free.len() - 1);
+    out.push(ctrl);
     Ok((out, domain))
 }
 
@@ -414,86 +422,143 @@ fn arithmetic(
     let base = s.controlled as usize;
     let a: Vec<i32> = free[base..base + w].to_vec();
     let rest = &free[base + w..];
-    let k = s.constant.unwrap_or(0);
-    let n = s.modulus.unwrap_or(2);
+    let zero = BigUint::default();
+    let k = s.constant.as_ref().unwrap_or(&zero);
     let f = -cnf.truth;
+    let t = cnf.truth;
     let mut result: Vec<i32> = free.to_vec();
     let regs = &mut result[base..];
-    match s.op {
-        ArithOp::Add => {
-            let b = &rest[..w];
-            let (sum, c) = cnf.add(&a, b, f);
-            regs[w..2 * w].copy_from_slice(&sum);
-            if s.carry_out {
-                regs[2 * w] = cnf.xor(rest[w], c);
-            }
-        }
-        ArithOp::Sub => {
-            let b = &rest[..w];
-            let na: Vec<i32> = a.iter().map(|v| -v).collect();
-            let t = cnf.truth;
-            let (diff, _) = cnf.add(b, &na, t);
-            regs[w..2 * w].copy_from_slice(&diff);
-        }
-        ArithOp::AddConst => {
-            let kb = cnf.constant_bits(k, w);
-            let (sum, _) = cnf.add(&a, &kb, f);
-            regs[..w].copy_from_slice(&sum);
-        }
-        ArithOp::LessThan => {
-            let b = &rest[..w];
-            let ge = cnf.at_least(&a, b);
-            regs[2 * w] = cnf.xor(rest[w], -ge);
-        }
-        ArithOp::LessThanConst => {
-            let kb = cnf.constant_bits(k, w);
-            let ge = cnf.at_least(&a, &kb);
-            regs[w] = cnf.xor(rest[0], -ge);
-        }
-        ArithOp::EqualConst => {
-            let kb = cnf.constant_bits(k, w);
-            let eq = cnf.equal(&a, &kb);
-            regs[w] = cnf.xor(rest[0], eq);
-        }
-        ArithOp::IncrementMod => {
-            let nb = cnf.constant_bits(n, w + 1);
-            let mut a1 = a.clone();
-            a1.push(f);
-            let below = -cnf.at_least(&a1, &nb);
-            let last = cnf.constant_bits(n - 1, w);
-            let wraps = cnf.equal(&a, &last);
-            let one = cnf.constant_bits(1, w);
-            let (inc, _) = cnf.add(&a, &one, f);
-            for i in 0..w {
-                let stepped = cnf.and(&[-wraps, inc[i]]);
-                regs[i] = cnf.mux(below, stepped, a[i]);
-            }
-        }
-        ArithOp::AddMod => {
-            let b = &rest[..w];
-            let nb = cnf.constant_bits(n, w + 1);
-            let mut a1 = a.clone();
-            a1.push(f);
-            let mut b1 = b.to_vec();
-            b1.push(f);
-            domain.push(-cnf.at_least(&a1, &nb));
-            domain.push(-cnf.at_least(&b1, &nb));
-            let (mut sum, c) = cnf.add(&a, b, f);
-            sum.push(c);
-            let ge = cnf.at_least(&sum, &nb);
-            let minus = cnf.constant_bits(n.wrapping_neg(), w + 1);
-            let mut minus = minus;
-            for (i, m) in minus.iter_mut().enumerate() {
-                if i >= 64 {
-                    *m = cnf.truth;
+    let big = |cnf: &Cnf, v: &BigUint, w: usize| -> Vec<i32> {
+        (0..w).map(|i| cnf.constant(v.bit(i as u64))).collect()
+    };
+    let constant = s.constant.is_some();
+    let unsupported = |what: &str| {
+        Err(SatError::Unsupported(format!(
+            "{what}: its miter (a product or chain of products against the circuit's own adders) is beyond what the solver proves in useful time; use the exhaustive route at small widths"
+        )))
+    };
+    match (s.op, &s.modulus) {
+        (ArithOp::Add | ArithOp::Subtract, None) => {
+            let sub = s.op == ArithOp::Subtract;
+            let (target, addend): (Vec<i32>, Vec<i32>) = if constant {
+                (a.clone(), big(cnf, k, w))
+            } else {
+                (rest[..w].to_vec(), a.clone())
+            };
+            let at = if constant { 0 } else { w };
+            if sub {
+                let na: Vec<i32> = addend.iter().map(|v| -v).collect();
+                let (diff, _) = cnf.add(&target, &na, t);
+                regs[at..at + w].copy_from_slice(&diff);
+            } else {
+                let (sum, c) = cnf.add(&target, &addend, f);
+                regs[at..at + w].copy_from_slice(&sum);
+                if s.carry_out {
+                    regs[at + w] = cnf.xor(free[base + at + w], c);
                 }
             }
-            let (reduced, _) = cnf.add(&sum, &minus, f);
-            for i in 0..w {
-                regs[w + i] = cnf.mux(ge, reduced[i], sum[i]);
+        }
+        (ArithOp::Add | ArithOp::Subtract, Some(n)) => {
+            let sub = s.op == ArithOp::Subtract;
+            let nb = big(cnf, n, w + 1);
+            let widen = |x: &[i32]| -> Vec<i32> { x.iter().copied().chain([f]).collect() };
+            let (target, addend, at): (Vec<i32>, Vec<i32>, usize) = if constant {
+                (a.clone(), big(cnf, k, w), 0)
+            } else {
+                (rest[..w].to_vec(), a.clone(), w)
+            };
+            domain.push(-cnf.at_least(&widen(&target), &nb));
+            if !constant {
+                domain.push(-cnf.at_least(&widen(&addend), &nb));
+            }
+            let (t1, a1) = (widen(&target), widen(&addend));
+            let r = if sub {
+                // t - a, plus n when it went below 0.
+                let na: Vec<i32> = a1.iter().map(|v| -v).collect();
+                let (diff, no_borrow) = cnf.add(&t1, &na, t);
+                let (wrapped, _) = cnf.add(&diff, &nb, f);
+                (0..w)
+                    .map(|i| cnf.mux(no_borrow, diff[i], wrapped[i]))
+                    .collect::<Vec<_>>()
+            } else {
+                let (sum, _) = cnf.add(&t1, &a1, f);
+                let ge = cnf.at_least(&sum, &nb);
+                let nn: Vec<i32> = nb.iter().map(|v| -v).collect();
+                let (reduced, _) = cnf.add(&sum, &nn, t);
+                (0..w)
+                    .map(|i| cnf.mux(ge, reduced[i], sum[i]))
+                    .collect::<Vec<_>>()
+            };
+            regs[at..at + w].copy_from_slice(&r);
+        }
+        (ArithOp::Compare, _) => {
+            let (rhs, y) = if constant {
+                (big(cnf, k, w), w)
+            } else {
+                (rest[..w].to_vec(), 2 * w)
+            };
+            let holds = match s.relation.expect("compare has a relation") {
+                Relation::Less => -cnf.at_least(&a, &rhs),
+                Relation::GreaterEq => cnf.at_least(&a, &rhs),
+                Relation::Greater => -cnf.at_least(&rhs, &a),
+                Relation::LessEq => cnf.at_least(&rhs, &a),
+                Relation::Equal => cnf.equal(&a, &rhs),
+                Relation::NotEqual => -cnf.equal(&a, &rhs),
+            };
+            regs[y] = cnf.xor(free[base + y], holds);
+        }
+        (ArithOp::Multiply, None) if constant => {
+            // a * c as the sum of a shifted by each set bit of c.
+            let m = w + k.bits() as usize;
+            let mut sum = vec![f; m];
+            for j in 0..k.bits() as usize {
+                if k.bit(j as u64) {
+                    let shifted: Vec<i32> =
+                        (0..m - j).map(|i| if i < w { a[i] } else { f }).collect();
+                    let (s2, _) = cnf.add(&sum[j..], &shifted, f);
+                    sum[j..].copy_from_slice(&s2);
+                }
+            }
+            for i in 0..m {
+                regs[w + i] = cnf.xor(free[base + w + i], sum[i]);
             }
         }
-        ArithOp::Lookup => {
+        (ArithOp::Multiply, None) => return unsupported("multiply of two registers"),
+        (ArithOp::Multiply, Some(_)) => return unsupported("modular multiply by a constant"),
+        (ArithOp::Power, _) => return unsupported("power"),
+        (ArithOp::Weight, _) => {
+            // The popcount by full and half adders level by level (a running
+            // sum, one bit at a time, is a miter the solver did not finish
+            // in 120 s at 32 bits).
+            let m = rest.len();
+            let mut levels: Vec<std::collections::VecDeque<i32>> =
+                vec![a.iter().copied().collect()];
+            let mut i = 0;
+            while i < levels.len() {
+                while levels[i].len() >= 2 {
+                    let x = levels[i].pop_front().expect("two bits");
+                    let y = levels[i].pop_front().expect("two bits");
+                    let (sum, carry) = match levels[i].pop_front() {
+                        Some(z) => {
+                            let xy = cnf.xor(x, y);
+                            (cnf.xor(xy, z), cnf.maj(x, y, z))
+                        }
+                        None => (cnf.xor(x, y), cnf.and(&[x, y])),
+                    };
+                    levels[i].push_back(sum);
+                    if levels.len() == i + 1 {
+                        levels.push(Default::default());
+                    }
+                    levels[i + 1].push_back(carry);
+                }
+                i += 1;
+            }
+            for j in 0..m {
+                let bit = levels.get(j).and_then(|l| l.front().copied()).unwrap_or(f);
+                regs[w + j] = cnf.xor(rest[j], bit);
+            }
+        }
+        (ArithOp::Lookup, _) => {
             if w > SAT_MAX_TABLE_INPUTS {
                 return Err(SatError::Unsupported(
                     "lookup address too wide for SAT".into(),
@@ -523,8 +588,8 @@ pub fn sat_equivalence(
     budget: Duration,
     stop: &dyn Progress,
 ) -> Result<SatOutcome, SatError> {
-    let binding: Binding =
-        bind(circuit, &spec.layout().sizes()).map_err(|e| SatError::Binding(e.to_string()))?;
+    let binding: Binding = bind(circuit, &super::bind::expected_registers(spec))
+        .map_err(|e| SatError::Binding(e.to_string()))?;
     let mut cnf = Cnf::new(budget, stop);
     let free: Vec<i32> = binding.free.iter().map(|_| cnf.var()).collect();
     let (want, domain) = expected(&mut cnf, spec, &free)?;
@@ -710,21 +775,6 @@ fn bits_to_u64(bits: &[bool]) -> Option<u64> {
     })
 }
 
-/// Ripple addition of little-endian bit vectors, with carry in; returns the sum
-/// (same width) and the carry out.
-fn add_bits(x: &[bool], y: &[bool], mut c: bool) -> (Vec<bool>, bool) {
-    let mut s = Vec::with_capacity(x.len());
-    for (&a, &b) in x.iter().zip(y) {
-        s.push(a ^ b ^ c);
-        c = (a && b) || (c && (a ^ b));
-    }
-    (s, c)
-}
-
-fn const_bits(k: u64, w: usize) -> Vec<bool> {
-    (0..w).map(|i| i < 64 && (k >> i) & 1 == 1).collect()
-}
-
 /// The truth table of `f` over `vars` inputs as little-endian words (bit `i`
 /// of the table is `f(i)`).
 fn words_of(vars: usize, f: impl Fn(u64) -> bool) -> Vec<u64> {
@@ -739,6 +789,22 @@ fn words_of(vars: usize, f: impl Fn(u64) -> bool) -> Vec<u64> {
 /// The spec's expected value of every free line, by plain bit arithmetic;
 /// `None` outside the op's domain.
 fn reference_bits(spec: &Spec, free: &[bool]) -> Option<Vec<bool>> {
+    if super::bind::outer_control(spec) {
+        // `ctrl` last: nothing changes where it is 0.
+        let (ctrl, rest) = free.split_last()?;
+        if !ctrl {
+            return Some(free.to_vec());
+        }
+        let mut out = reference_plain(spec, rest)?;
+        out.truncate(rest.len());
+        out.push(true);
+        return Some(out);
+    }
+    reference_plain(spec, free)
+}
+
+/// [`reference_bits`] of the map without its control.
+fn reference_plain(spec: &Spec, free: &[bool]) -> Option<Vec<bool>> {
     match &spec.body {
         SpecBody::Function(f) => {
             let n = f.inputs.len();
@@ -771,86 +837,22 @@ fn reference_bits(spec: &Spec, free: &[bool]) -> Option<Vec<bool>> {
             Some((0..free.len()).map(|j| (img >> j) & 1 == 1).collect())
         }
         SpecBody::Arithmetic(s) => {
-            let w = s.width;
-            let base = s.controlled as usize;
-            if s.controlled && !free[0] {
-                if s.op == ArithOp::AddMod {
-                    let n = const_bits(s.modulus.unwrap_or(2), w + 1);
-                    let a: Vec<bool> = free[1..1 + w].iter().copied().chain([false]).collect();
-                    let b: Vec<bool> = free[1 + w..1 + 2 * w]
-                        .iter()
-                        .copied()
-                        .chain([false])
-                        .collect();
-                    let ge =
-                        |x: &[bool]| add_bits(x, &n.iter().map(|v| !v).collect::<Vec<_>>(), true).1;
-                    if ge(&a) || ge(&b) {
-                        return None;
-                    }
+            // Register values from the free lines, in layout order.
+            let sizes = s.layout().sizes();
+            let mut values = Vec::with_capacity(sizes.len());
+            let mut at = 0;
+            for &(_, size) in &sizes {
+                let mut v = BigUint::default();
+                for j in 0..size {
+                    v.set_bit(j as u64, free[at + j]);
                 }
-                return Some(free.to_vec());
+                values.push(v);
+                at += size;
             }
-            let mut out = free.to_vec();
-            let a = free[base..base + w].to_vec();
-            let rest = &free[base + w..];
-            let k = s.constant.unwrap_or(0);
-            let ge = |x: &[bool], y: &[bool]| {
-                add_bits(x, &y.iter().map(|v| !v).collect::<Vec<_>>(), true).1
-            };
-            match s.op {
-                ArithOp::Add => {
-                    let (sum, c) = add_bits(&a, &rest[..w], false);
-                    out[base + w..base + 2 * w].copy_from_slice(&sum);
-                    if s.carry_out {
-                        out[base + 2 * w] ^= c;
-                    }
-                }
-                ArithOp::Sub => {
-                    let na: Vec<bool> = a.iter().map(|v| !v).collect();
-                    let (d, _) = add_bits(&rest[..w], &na, true);
-                    out[base + w..base + 2 * w].copy_from_slice(&d);
-                }
-                ArithOp::AddConst => {
-                    let (sum, _) = add_bits(&a, &const_bits(k, w), false);
-                    out[base..base + w].copy_from_slice(&sum);
-                }
-                ArithOp::LessThan => out[base + 2 * w] ^= !ge(&a, &rest[..w]),
-                ArithOp::LessThanConst => out[base + w] ^= !ge(&a, &const_bits(k, w)),
-                ArithOp::EqualConst => out[base + w] ^= a == const_bits(k, w),
-                ArithOp::IncrementMod => {
-                    let n = s.modulus.unwrap_or(2);
-                    let a1: Vec<bool> = a.iter().copied().chain([false]).collect();
-                    if !ge(&a1, &const_bits(n, w + 1)) {
-                        let next = if a == const_bits(n - 1, w) {
-                            vec![false; w]
-                        } else {
-                            add_bits(&a, &const_bits(1, w), false).0
-                        };
-                        out[base..base + w].copy_from_slice(&next);
-                    }
-                }
-                ArithOp::AddMod => {
-                    let n = const_bits(s.modulus.unwrap_or(2), w + 1);
-                    let a1: Vec<bool> = a.iter().copied().chain([false]).collect();
-                    let b1: Vec<bool> = rest[..w].iter().copied().chain([false]).collect();
-                    if ge(&a1, &n) || ge(&b1, &n) {
-                        return None;
-                    }
-                    let (mut sum, c) = add_bits(&a, &rest[..w], false);
-                    sum.push(c);
-                    if ge(&sum, &n) {
-                        let nn: Vec<bool> = n.iter().map(|v| !v).collect();
-                        sum = add_bits(&sum, &nn, true).0;
-                    }
-                    out[base + w..base + 2 * w].copy_from_slice(&sum[..w]);
-                }
-                ArithOp::Lookup => {
-                    let addr = bits_to_u64(&a)? as usize;
-                    let word = s.data[addr];
-                    for j in 0..s.data_width {
-                        out[base + w + j] ^= (word >> j) & 1 == 1;
-                    }
-                }
+            let result = super::reference::big_reference(s, &values)?;
+            let mut out = Vec::with_capacity(free.len());
+            for (v, &(_, size)) in result.iter().zip(&sizes) {
+                out.extend((0..size).map(|j| v.bit(j as u64)));
             }
             Some(out)
         }

@@ -1,4 +1,4 @@
-//! `oraculum cost`: the cost report of an OpenQASM 2 circuit.
+//! `oraculum cost`: the cost report of an OpenQASM 2 or 3 circuit.
 
 use crate::cli::files::load_circuit;
 use crate::cli::{code, Failure};
@@ -7,12 +7,17 @@ use std::path::Path;
 
 pub fn run(circuit: &Path, json: bool, max_gates: usize) -> Result<i32, Failure> {
     let c = load_circuit(circuit, max_gates)?;
-    if c.max_controls() > 2 {
-        return Err(Failure::bad(
-            "the circuit has gates with more than two controls",
-        ));
-    }
-    let cost = Cost::measure(&c, &c);
+    // An OpenQASM 3 file may hold unlowered gates (ctrl(k) @ x): its cost
+    // is that of the circuit lowered as synth lowers it.
+    let unlowered = c.max_controls() > 2
+        || c.gates()
+            .iter()
+            .any(|g| g.is_flip() && g.controls().iter().any(|x| !x.positive));
+    let cost = if unlowered {
+        Cost::measure(&c, &oraculum::lower(&c))
+    } else {
+        Cost::measure(&c, &c)
+    };
     if json {
         outln!(
             "{}",

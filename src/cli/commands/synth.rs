@@ -19,9 +19,14 @@ pub fn run(
     limits: &LimitArgs,
 ) -> Result<i32, Failure> {
     let format = form.format;
-    if form.as_gate.is_some() && !matches!(format, Format::Qasm) {
+    if form.as_gate.is_some() && matches!(format, Format::Text) {
         return Err(Failure::bad(
-            "--as-gate writes OpenQASM; it takes --format qasm",
+            "--as-gate writes OpenQASM; it takes --format qasm or qasm3",
+        ));
+    }
+    if form.keep_mct && !matches!(format, Format::Qasm3) {
+        return Err(Failure::bad(
+            "--keep-mct writes ctrl(k) @ x, which is OpenQASM 3; it takes --format qasm3",
         ));
     }
     // `-o -` is standard output, as without `-o`.
@@ -54,6 +59,12 @@ pub fn run(
             None => out.qasm(),
         }
         .map_err(|e| Failure::bad(format!("cannot write OpenQASM 2: {e}")))?,
+        Format::Qasm3 => out
+            .qasm3(&oraculum::export::Qasm3Options {
+                gate: form.as_gate.clone(),
+                keep_mct: form.keep_mct,
+            })
+            .map_err(|e| Failure::bad(format!("cannot write OpenQASM 3: {e}")))?,
         Format::Text => listing(&out.lowered),
         Format::CliffordT => out
             .clifford_t()

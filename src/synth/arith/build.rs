@@ -144,6 +144,14 @@ impl Builder {
         }
     }
 
+    /// Reverses the order of the gates since `start`: every gate is its own
+    /// inverse, so the part becomes its inverse.
+    pub fn reverse_from(&mut self, start: usize) {
+        let mut gates = self.circuit.gates().to_vec();
+        gates[start..].reverse();
+        self.circuit.set_gates(gates);
+    }
+
     /// Replays scaffold gates `[start, end)` backwards, undoing them.
     pub fn undo(&mut self, start: usize, end: usize) {
         let gates: Vec<Gate> = self.circuit.gates()[start..end].to_vec();

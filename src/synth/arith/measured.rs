@@ -23,14 +23,16 @@ pub fn lookup_of(spec: &ArithSpec, measure: bool) -> Circuit {
 /// when a dedicated construction exists for its op; `None` otherwise.
 pub fn arithmetic_measured(spec: &ArithSpec) -> Option<Circuit> {
     let (lines, r) = arith_lines(spec);
+    let plain = spec.constant.is_none() && spec.modulus.is_none();
     match spec.op {
         ArithOp::Lookup => Some(lookup_of(spec, true)),
-        ArithOp::Add if r.ctrl.is_none() => {
+        // Register adders only: a constant or a modulus keeps the structural form.
+        ArithOp::Add if r.ctrl.is_none() && plain => {
             let mut c = Circuit::new(lines);
             gidney_add(&mut c, &r.a, &r.b, r.cout, true);
             Some(c)
         }
-        ArithOp::Sub if r.ctrl.is_none() => {
+        ArithOp::Subtract if r.ctrl.is_none() && plain => {
             // b - a = !(!b + a)
             let mut c = Circuit::new(lines);
             for &l in &r.b {

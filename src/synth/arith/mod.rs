@@ -17,19 +17,31 @@
 //!   Toffoli. Controlled ops use this form: only the gates that change a
 //!   register take the control.
 //!
-//! Every generator is linear in the width. The verifier checks them all.
+//! The generators of this file are linear in the width. Comparisons,
+//! modular addition of a constant, multiplication, modular exponentiation and
+//! Hamming weight live in their own files ([`compare`], [`modular`],
+//! [`multiply`], [`power`], [`weight`]), each with its construction and the
+//! published count it meets. The verifier checks them all.
 
 mod build;
+mod compare;
 pub mod gidney;
 pub mod lookup;
 mod measured;
+mod modular;
+mod multiply;
+mod power;
+mod table;
+mod weight;
+
+pub use table::{arith_images, TABLE_MAX_LINES};
 
 pub use build::{Bit, Builder};
 pub use measured::{arithmetic_measured, lookup_of};
 
 use crate::circuit::layout::{CARRY, CONTROL, OUTPUTS};
 use crate::circuit::{Circuit, Control, Gate, Line, LineInfo};
-use crate::spec::{ArithOp, ArithSpec};
+use crate::spec::{ArithOp, ArithSpec, BigUint};
 
 /// The registers of an arithmetic circuit, as line numbers.
 #[derive(Clone, Debug, Default)]
@@ -44,6 +56,12 @@ pub struct Registers {
     pub y: Vec<Line>,
     /// `cout[1]`: carry-out of `add`.
     pub cout: Option<Line>,
+    /// `p`: the product register of `multiply`.
+    pub p: Vec<Line>,
+    /// `e`: the exponent of `power`.
+    pub e: Vec<Line>,
+    /// `x`: the register changed in place by the modular multiply and `power`.
+    pub x: Vec<Line>,
 }
 
 /// The lines of `spec` in the order of its layout (`ctrl`, `a`, `b`, `y`/`cout`),
@@ -62,24 +80,30 @@ pub fn arith_lines(spec: &ArithSpec) -> (Vec<LineInfo>, Registers) {
         b: find("b"),
         y: find(OUTPUTS),
         cout: find(CARRY).first().copied(),
+        p: find("p"),
+        e: find("e"),
+        x: find("x"),
     };
     (lines, regs)
 }
 
-/// Bit `i` of a constant, for registers wider than 64 bits.
-fn const_bit(k: u64, i: usize) -> bool {
-    i < 64 && (k >> i) & 1 == 1
+/// Bit `i` of a constant of any width.
+fn const_bit(k: &BigUint, i: usize) -> bool {
+    k.bit(i as u64)
 }
 
 /// Generates the circuit of MCT gates for an arithmetic spec.
 pub fn arithmetic(spec: &ArithSpec) -> Circuit {
     let (lines, r) = arith_lines(spec);
     let mut b = Builder::new(lines, None);
-    let w = spec.width;
-    let k = spec.constant.unwrap_or(0);
-    match spec.op {
-        ArithOp::Add => add(&mut b, &r.a, &r.b, r.cout, r.ctrl),
-        ArithOp::Sub => {
+    let zero = BigUint::default();
+    let k = spec.constant.as_ref().unwrap_or(&zero);
+    match (spec.op, &spec.modulus) {
+        (ArithOp::Add | ArithOp::Subtract, Some(n)) => {
+            modular::add_or_subtract(&mut b, spec.op, &r, spec.constant.as_ref(), n)
+        }
+        (ArithOp::Add, None) if spec.constant.is_none() => add(&mut b, &r.a, &r.b, r.cout, r.ctrl),
+        (ArithOp::Subtract, None) if spec.constant.is_none() => {
             // b - a = !(!b + a)
             for &l in &r.b {
                 b.scaffold(Gate::not(l.0));
@@ -89,29 +113,37 @@ pub fn arithmetic(spec: &ArithSpec) -> Circuit {
                 b.scaffold(Gate::not(l.0));
             }
         }
-        ArithOp::AddConst => {
+        (ArithOp::Add | ArithOp::Subtract, None) => {
+            // a - k = a + (2^w - k) mod 2^w.
+            let w = spec.width;
+            let k = if spec.op == ArithOp::Subtract {
+                ((BigUint::from(1u32) << w) - k) % (BigUint::from(1u32) << w)
+            } else {
+                k.clone()
+            };
             // A controlled constant is the register ctrl * k: literals of ctrl.
             let one = r.ctrl.map_or(Bit::One, Bit::of);
             let q: Vec<Bit> = (0..w)
-                .map(|i| if const_bit(k, i) { one } else { Bit::Zero })
+                .map(|i| if const_bit(&k, i) { one } else { Bit::Zero })
                 .collect();
-            add_in_place(&mut b, &r.a, &q, None);
+            add_in_place(&mut b, &r.a, &q, r.cout);
         }
-        ArithOp::LessThan => {
-            b.set_ctrl(r.ctrl);
-            less_than(&mut b, &r.a, &r.b, r.y[0]);
-        }
-        ArithOp::LessThanConst => {
-            b.set_ctrl(r.ctrl);
-            less_than_const(&mut b, &r.a, k, r.y[0]);
-        }
-        ArithOp::EqualConst => {
-            b.set_ctrl(r.ctrl);
-            b.effect(equal_gate(&r.a, k, r.y[0]));
-        }
-        ArithOp::IncrementMod => increment_mod(&mut b, &r.a, spec.modulus.unwrap_or(2), r.ctrl),
-        ArithOp::AddMod => add_mod(&mut b, &r.a, &r.b, spec.modulus.unwrap_or(2), r.ctrl),
-        ArithOp::Lookup => return lookup_of(spec, false),
+        (ArithOp::Compare, _) => compare::compare(&mut b, spec, &r),
+        (ArithOp::Multiply, Some(n)) => multiply::multiply_mod_in_place(&mut b, &r.x, k, n, r.ctrl),
+        (ArithOp::Multiply, None) => match &spec.constant {
+            Some(c) => multiply::multiply_const(&mut b, &r.a, c, &r.p, r.ctrl),
+            None => multiply::multiply(&mut b, &r.a, &r.b, &r.p, r.ctrl),
+        },
+        (ArithOp::Power, n) => power::power(
+            &mut b,
+            &r.e,
+            &r.x,
+            k,
+            n.as_ref().expect("power has a modulus"),
+            r.ctrl,
+        ),
+        (ArithOp::Weight, _) => weight::weight(&mut b, &r.a, &r.y, r.ctrl),
+        (ArithOp::Lookup, _) => return lookup_of(spec, false),
     }
     b.finish()
 }
@@ -236,7 +268,7 @@ fn less_than(b: &mut Builder, a: &[Line], bb: &[Line], y: Line) {
 
 /// `y ^= (a < k)`: the carry-out of `!a + k` by a carry chain in which the
 /// constant folds every majority into an AND, an OR or a copy.
-fn less_than_const(b: &mut Builder, a: &[Line], k: u64, y: Line) {
+fn less_than_const(b: &mut Builder, a: &[Line], k: &BigUint, y: Line) {
     let w = a.len();
     let p: Vec<Bit> = a.iter().map(|&l| Bit::of(l).not()).collect();
     let q: Vec<Bit> = (0..w).map(|i| Bit::constant(const_bit(k, i))).collect();
@@ -254,7 +286,7 @@ fn less_than_const(b: &mut Builder, a: &[Line], k: u64, y: Line) {
 }
 
 /// One gate: `y ^= (a == k)`.
-fn equal_gate(a: &[Line], k: u64, y: Line) -> Gate {
+fn equal_gate(a: &[Line], k: &BigUint, y: Line) -> Gate {
     let controls = a
         .iter()
         .enumerate()
@@ -272,10 +304,10 @@ fn equal_gate(a: &[Line], k: u64, y: Line) -> Gate {
 /// `e = g & [a == n]` (the one value that wrapped); `a ^= n` under `e`, which
 /// sends it to 0; `e ^= [a == 0]`; `g ^= [a < n]`, which is again the same
 /// predicate because values below `n` stay below `n`.
-fn increment_mod(b: &mut Builder, a: &[Line], n: u64, ctrl: Option<Line>) {
+fn increment_mod(b: &mut Builder, a: &[Line], n: &BigUint, ctrl: Option<Line>) {
     let w = a.len();
     let one = ctrl.map_or(Bit::One, Bit::of);
-    if w < 64 && n == 1u64 << w {
+    if *n == BigUint::from(1u32) << w {
         let mut q = vec![Bit::Zero; w];
         q[0] = one;
         add_in_place(b, a, &q, None);
@@ -298,7 +330,7 @@ fn increment_mod(b: &mut Builder, a: &[Line], n: u64, ctrl: Option<Line>) {
         }
     }
     b.set_ctrl(ctrl);
-    b.effect(equal_gate(a, 0, e));
+    b.effect(equal_gate(a, &BigUint::default(), e));
     less_than_const(b, a, n, g);
     b.set_ctrl(None);
     b.release(e);
@@ -312,22 +344,17 @@ fn increment_mod(b: &mut Builder, a: &[Line], n: u64, ctrl: Option<Line>) {
 /// `w + 1`-bit `(h, b)`; `t = h` records that the sum was below `n`; add `n`
 /// back under `t` (now `h = 0`); clear `t`, which equals `[b >= a]` for the
 /// result `b`.
-fn add_mod(b: &mut Builder, a: &[Line], s: &[Line], n: u64, ctrl: Option<Line>) {
+fn add_mod(b: &mut Builder, a: &[Line], s: &[Line], n: &BigUint, ctrl: Option<Line>) {
     let w = a.len();
     let h = b.ancilla();
     let t = b.ancilla();
     add(b, a, s, Some(h), ctrl);
     let mut wide: Vec<Line> = s.to_vec();
     wide.push(h);
-    let minus_n = n.wrapping_neg();
+    // -n on the w + 1 bits of (h, b); the bits past the modulus are all 1.
+    let minus_n = (BigUint::from(1u32) << (w + 1)) - n;
     let q: Vec<Bit> = (0..=w)
-        .map(|i| {
-            Bit::constant(if i < 64 {
-                (minus_n >> i) & 1 == 1
-            } else {
-                true
-            })
-        })
+        .map(|i| Bit::constant(const_bit(&minus_n, i)))
         .collect();
     add_in_place(b, &wide, &q, None);
     b.scaffold(Gate::cnot(h.0, t.0));
