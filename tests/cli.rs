@@ -932,3 +932,69 @@ fn measure_mode_from_the_command_line() {
     );
     assert_eq!(o.status.code(), Some(2));
 }
+
+// `--format clifford-t` writes a file that `verify` refuses by name (never
+// "verified"), and `cost` too; the plain form of the same build is proven.
+#[test]
+fn clifford_t_files_are_refused_by_the_reader() {
+    let dir = workspace();
+    let o = run_in(
+        dir.path(),
+        &[
+            "synth",
+            "specs/fuel-sum.toml",
+            "--uncompute",
+            "measure",
+            "--format",
+            "clifford-t",
+            "-o",
+            "ct.qasm",
+        ],
+    );
+    assert_eq!(o.status.code(), Some(0), "{:?}", text(&o));
+    let written = std::fs::read_to_string(dir.path().join("ct.qasm")).unwrap();
+    assert!(written.contains("\ntdg ") && !written.contains("ccx"));
+    for args in [
+        &["verify", "ct.qasm", "--spec", "specs/fuel-sum.toml"][..],
+        &["cost", "ct.qasm"][..],
+    ] {
+        let o = run_in(dir.path(), args);
+        assert_eq!(o.status.code(), Some(2), "{:?}", text(&o));
+        let (out, err) = text(&o);
+        assert!(err.contains("Clifford+T"), "{err}");
+        assert!(!out.contains("verified"), "{out}");
+    }
+}
+
+// `draw --uncompute measure` marks temporary ANDs and measured uncomputes.
+#[test]
+fn draw_marks_measured_gates() {
+    let dir = workspace();
+    let o = run_in(
+        dir.path(),
+        &[
+            "draw",
+            "specs/tide-gate.toml",
+            "--method",
+            "bennett",
+            "--lowered",
+            "--uncompute",
+            "measure",
+        ],
+    );
+    assert_eq!(o.status.code(), Some(0), "{:?}", text(&o));
+    let (out, _) = text(&o);
+    assert!(out.contains('∧') && out.contains('M'), "{out}");
+    assert!(out.contains("measured uncomputes"), "{out}");
+    let o = run_in(
+        dir.path(),
+        &[
+            "draw",
+            "specs/tide-gate.toml",
+            "--method",
+            "bennett",
+            "--lowered",
+        ],
+    );
+    assert!(!text(&o).0.contains('∧'));
+}

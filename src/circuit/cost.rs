@@ -13,6 +13,15 @@ pub const T_PER_TOFFOLI: usize = 7;
 /// Gidney, Quantum 2, 74 (2018), Fig. 3. The measured uncompute costs none.
 pub const T_PER_TEMPORARY_AND: usize = 4;
 
+/// T layers of one Toffoli in the Clifford+T form: 3 (Amy, Maslov, Mosca,
+/// Roetteler, IEEE TCAD 32, 2013, Fig. 13).
+pub const T_DEPTH_PER_TOFFOLI: usize = 3;
+
+/// T layers of one temporary AND alone in the Clifford+T form: 2 (the T
+/// that makes `T|+>` on the target, then one layer of three; Gidney 2018,
+/// Fig. 3). The first overlaps earlier layers on the controls.
+pub const T_DEPTH_PER_TEMPORARY_AND: usize = 2;
+
 /// How ANDs computed into clean ancillae are uncomputed: by a second
 /// Toffoli (`toffoli`, pure NOT/CNOT/Toffoli output) or by measurement
 /// (`measure`: a temporary AND and a measured uncompute, Jones 2013 and
@@ -76,6 +85,10 @@ pub struct Cost {
     pub toffoli_depth: usize,
     /// 7 per Toffoli, 4 per temporary AND.
     pub t_count: usize,
+    /// T-depth of the Clifford+T form: 3 T layers per Toffoli, 2 per
+    /// temporary AND (the first on its fresh target alone), none for Clifford
+    /// gates and measured uncomputes, in the order of the gates on each line.
+    pub t_depth: usize,
 }
 
 impl Cost {
@@ -102,6 +115,7 @@ impl Cost {
             .filter(|g| g.is_temporary_and())
             .count();
         let (depth, toffoli_depth) = depths(lowered);
+        let t_depth = t_depth(lowered);
         let mode = if lowered.special_count() > 0 {
             Uncompute::Measure
         } else {
@@ -120,6 +134,7 @@ impl Cost {
             depth,
             toffoli_depth,
             t_count: toffoli * T_PER_TOFFOLI + temporary_and * T_PER_TEMPORARY_AND,
+            t_depth,
         }
     }
 
@@ -127,6 +142,52 @@ impl Cost {
     pub fn mct_total(&self) -> usize {
         self.mct.values().sum()
     }
+}
+
+/// The T-depth of the Clifford+T form (`export::clifford_t`), layer by layer
+/// as that form places its T gates: each line keeps the number of T layers
+/// before it, a CNOT or CZ passes the larger of its two lines on, a Toffoli
+/// ends all three lines at their largest plus [`T_DEPTH_PER_TOFFOLI`]; a
+/// temporary AND makes its first T on the fresh target (its level plus 1),
+/// then one layer on all three lines: `max(a, b, t + 1) + 1`; a measured
+/// uncompute (no T) joins its two controls by its CZ.
+fn t_depth(c: &Circuit) -> usize {
+    let mut level = vec![0usize; c.width()];
+    let mut depth = 0;
+    for g in c.gates() {
+        let t = g.target().index();
+        let cs: Vec<usize> = g.controls().iter().map(|x| x.line.index()).collect();
+        let top = cs.iter().map(|&i| level[i]).max().unwrap_or(0);
+        match (g.kind(), cs.len()) {
+            (crate::circuit::Kind::Measured, _) => {
+                for &i in &cs {
+                    level[i] = top;
+                }
+            }
+            (crate::circuit::Kind::And, _) => {
+                let l = top.max(level[t] + 1) + (T_DEPTH_PER_TEMPORARY_AND - 1);
+                for &i in &cs {
+                    level[i] = l;
+                }
+                level[t] = l;
+            }
+            (_, 2) => {
+                let l = top.max(level[t]) + T_DEPTH_PER_TOFFOLI;
+                for &i in &cs {
+                    level[i] = l;
+                }
+                level[t] = l;
+            }
+            (_, 1) => {
+                let l = top.max(level[t]);
+                level[cs[0]] = l;
+                level[t] = l;
+            }
+            _ => {}
+        }
+        depth = depth.max(level[t]).max(top);
+    }
+    depth
 }
 
 /// Greedy layering: each gate goes one layer after the latest gate on any of
@@ -170,8 +231,8 @@ impl fmt::Display for Cost {
         )?;
         writeln!(
             f,
-            "  depth {:<7} toffoli depth {:<5} t-count {}",
-            self.depth, self.toffoli_depth, self.t_count
+            "  depth {:<7} toffoli depth {:<5} t-count {:<7} t-depth {}",
+            self.depth, self.toffoli_depth, self.t_count, self.t_depth
         )?;
         if self.temporary_and + self.measured > 0 || self.mode == Uncompute::Measure {
             writeln!(

@@ -29,6 +29,8 @@ pub enum Format {
     Qasm3,
     /// A plain listing of lines and gates.
     Text,
+    /// OpenQASM 2 in Clifford+T (h, s, sdg, t, tdg, x, cx, cz, measure, if); verify does not read it.
+    CliffordT,
 }
 
 /// `--method`: `auto` (`None`) or a method.

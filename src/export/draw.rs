@@ -3,7 +3,8 @@
 //! One column per gate. Lines are labelled with register, index, spec name and
 //! role; ancillae are drawn below a labelled gap with a dotted wire. A filled
 //! dot is a control on 1, a hollow one a control on 0, a circled plus the
-//! target, and a vertical bar joins them.
+//! target, and a vertical bar joins them. A temporary AND's target is `∧`, a
+//! measured uncompute's `M`.
 
 use crate::circuit::{Circuit, Gate, Role};
 use std::fmt::Write as _;
@@ -107,7 +108,11 @@ pub fn draw_text(c: &Circuit, width: usize) -> String {
                 let (lo, hi) = span(g, &row_of);
                 let l = rows[r];
                 let mark = if g.target().index() == l {
-                    '⊕'
+                    match g.kind() {
+                        crate::circuit::Kind::Flip => '⊕',
+                        crate::circuit::Kind::And => '∧',
+                        crate::circuit::Kind::Measured => 'M',
+                    }
                 } else if let Some(ctl) = g.controls().iter().find(|x| x.line.index() == l) {
                     if ctl.positive {
                         '●'
@@ -247,14 +252,27 @@ pub fn draw_svg(c: &Circuit, title: &str) -> String {
             s,
             "    <circle cx=\"{x:.0}\" cy=\"{ty:.0}\" r=\"9\" fill=\"#fdfcf8\" stroke=\"#222\"/>"
         );
-        let _ = writeln!(
-            s,
-            "    <path d=\"M{:.0} {ty:.0} H{:.0} M{x:.0} {:.0} V{:.0}\" stroke=\"#222\"/>",
-            x - 9.0,
-            x + 9.0,
-            ty - 9.0,
-            ty + 9.0
-        );
+        let word = match g.kind() {
+            crate::circuit::Kind::Flip => None,
+            crate::circuit::Kind::And => Some("∧"),
+            crate::circuit::Kind::Measured => Some("M"),
+        };
+        if let Some(w) = word {
+            let _ = writeln!(
+                s,
+                "    <text x=\"{x:.0}\" y=\"{:.0}\" text-anchor=\"middle\" font-size=\"12\">{w}</text>",
+                ty + 4.0
+            );
+        } else {
+            let _ = writeln!(
+                s,
+                "    <path d=\"M{:.0} {ty:.0} H{:.0} M{x:.0} {:.0} V{:.0}\" stroke=\"#222\"/>",
+                x - 9.0,
+                x + 9.0,
+                ty - 9.0,
+                ty + 9.0
+            );
+        }
         let _ = writeln!(s, "  </g>");
     }
     s.push_str("</svg>\n");

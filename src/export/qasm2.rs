@@ -250,6 +250,11 @@ impl crate::pipeline::Outcome {
         write_qasm(&self.lowered, &self.header())
     }
 
+    /// The lowered circuit in Clifford+T form ([`super::write_clifford_t`]).
+    pub fn clifford_t(&self) -> Result<String, WriteError> {
+        super::clifford_t::write_clifford_t(&self.lowered, &self.header())
+    }
+
     /// The lowered circuit as OpenQASM 2 in gate form ([`super::write_qasm_gate`]).
     pub fn qasm_gate(&self, name: &str) -> Result<String, WriteError> {
         super::gatedef::write_qasm_gate(&self.lowered, &self.header(), name)

@@ -19,7 +19,7 @@ mod pebble;
 mod reed_muller;
 mod transform;
 
-pub use arith::gidney::{gidney_add, gidney_ands};
+pub use arith::gidney::gidney_add;
 pub use arith::lookup::unary_lookup;
 pub use arith::{
     arith_images, arith_lines, arithmetic, arithmetic_measured, arithmetic_tally, Registers, Tally,

@@ -66,6 +66,9 @@ pub fn run(
             })
             .map_err(|e| Failure::bad(format!("cannot write OpenQASM 3: {e}")))?,
         Format::Text => listing(&out.lowered),
+        Format::CliffordT => out
+            .clifford_t()
+            .map_err(|e| Failure::bad(format!("cannot write OpenQASM 2: {e}")))?,
     };
     if let Some(path) = output {
         write_atomic(path, &text, &[spec_path])?;

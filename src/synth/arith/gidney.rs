@@ -7,20 +7,15 @@
 //! temporary AND of the two changed lines, one CNOT. On the way back the
 //! ancilla is turned back into that AND (one CNOT) and uncomputed by
 //! measurement (no Toffoli, no T), `a_i` is restored and `b_i` receives the
-//! sum bit `a_i XOR b_i XOR c_i`. With a carry-out the top carry goes onto
-//! `cout` (a free line, so a real Toffoli). In `toffoli` form (`measure =
-//! false`) every temporary AND and measured uncompute is a Toffoli instead:
-//! `2n - 2` mod `2^n`.
+//! sum bit `a_i XOR b_i XOR c_i`. With a carry-out the top AND goes into one
+//! more clean ancilla (a temporary AND), is copied onto `cout` and uncomputed
+//! by measurement: `n` temporary ANDs, `4n` T. In `toffoli` form (`measure =
+//! false`) every temporary AND and measured uncompute is a Toffoli instead
+//! (`2n - 2` mod `2^n`) and the top carry one Toffoli onto `cout`.
 //!
-//! Qubits: `n - 1` ancillae. Gates: linear in `n`.
+//! Qubits: `n - 1` ancillae (`n` with a carry-out). Gates: linear in `n`.
 
 use crate::circuit::{Circuit, Control, Gate, Line};
-
-/// The ANDs the adder computes into ancillae: `n - 1`, each uncomputed once
-/// (the carry-out's Toffoli is not among them).
-pub fn gidney_ands(n: usize) -> usize {
-    n.saturating_sub(1)
-}
 
 fn and(a: Line, b: Line, t: Line, measure: bool) -> Gate {
     let (a, b) = (
@@ -61,7 +56,8 @@ fn unand(a: Line, b: Line, t: Line, measure: bool) -> Gate {
 }
 
 /// Appends `b = (a + b) mod 2^n` (and `cout ^= carry` when given) to `c`,
-/// with `a` and `b` of equal width `n >= 1`, adding `n - 1` ancillae.
+/// with `a` and `b` of equal width `n >= 1`, adding `n - 1` ancillae (and one
+/// for the carry-out in `measure` form).
 pub fn gidney_add(c: &mut Circuit, a: &[Line], b: &[Line], cout: Option<Line>, measure: bool) {
     let n = a.len();
     assert_eq!(n, b.len(), "registers of one width");
@@ -89,7 +85,16 @@ pub fn gidney_add(c: &mut Circuit, a: &[Line], b: &[Line], cout: Option<Line>, m
             cx(c, k, a[top]);
             cx(c, k, b[top]);
         }
-        c.push(Gate::toffoli(a[top].0, b[top].0, co.0));
+        if measure {
+            // The top carry's AND into a clean ancilla (4 T), copied out and
+            // uncomputed at once: n temporary ANDs in all, 4n T.
+            let x = c.add_ancilla();
+            c.push(and(a[top], b[top], x, true));
+            cx(c, x, co);
+            c.push(unand(a[top], b[top], x, true));
+        } else {
+            c.push(Gate::toffoli(a[top].0, b[top].0, co.0));
+        }
         if let Some(k) = carry {
             cx(c, k, co);
             cx(c, k, a[top]);
