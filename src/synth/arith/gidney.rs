@@ -17,17 +17,16 @@
 
 use crate::circuit::{Circuit, Control, Gate, Line};
 
+fn positive(line: Line) -> Control {
+    Control {
+        line,
+        positive: true,
+    }
+}
+
+/// `t ^= a & b`: a temporary AND when `measure`, else a Toffoli.
 fn and(a: Line, b: Line, t: Line, measure: bool) -> Gate {
-    let (a, b) = (
-        Control {
-            line: a,
-            positive: true,
-        },
-        Control {
-            line: b,
-            positive: true,
-        },
-    );
+    let (a, b) = (positive(a), positive(b));
     if measure {
         Gate::temporary_and(a, b, t)
     } else {
@@ -36,17 +35,9 @@ fn and(a: Line, b: Line, t: Line, measure: bool) -> Gate {
     .expect("distinct lines")
 }
 
+/// Undoes [`and`]: a measured uncompute when `measure`, else a Toffoli.
 fn unand(a: Line, b: Line, t: Line, measure: bool) -> Gate {
-    let (a, b) = (
-        Control {
-            line: a,
-            positive: true,
-        },
-        Control {
-            line: b,
-            positive: true,
-        },
-    );
+    let (a, b) = (positive(a), positive(b));
     if measure {
         Gate::measured(a, b, t)
     } else {
