@@ -35,7 +35,7 @@ pub enum WriteError {
     MeasuredInGate(usize),
 }
 
-fn role_word(r: Role) -> &'static str {
+pub(super) fn role_word(r: Role) -> &'static str {
     match r {
         Role::Input => "input",
         Role::Output => "output",
@@ -46,12 +46,85 @@ fn role_word(r: Role) -> &'static str {
 
 /// The name of the 1-bit classical register of the measured uncomputes: `m`,
 /// or the first of `m1`, `m2`, ... that no quantum register has.
-fn creg_name(c: &Circuit) -> String {
-    let taken = |n: &str| c.registers().iter().any(|(r, _)| r == n);
+pub(super) fn creg_name(registers: &[(String, usize)]) -> String {
+    let taken = |n: &str| registers.iter().any(|(r, _)| r == n);
     std::iter::once("m".to_string())
         .chain((1..).map(|i| format!("m{i}")))
         .find(|n| !taken(n))
         .expect("some name is free")
+}
+
+/// A register name both formats accept: a lowercase letter, then letters,
+/// digits and `_`.
+pub(super) fn check_register(name: &str) -> Result<(), WriteError> {
+    let mut chars = name.chars();
+    let ok = matches!(chars.next(), Some(ch) if ch.is_ascii_lowercase())
+        && chars.all(|ch| ch.is_ascii_alphanumeric() || ch == '_');
+    if ok {
+        Ok(())
+    } else {
+        Err(WriteError::BadRegister(name.to_string()))
+    }
+}
+
+/// The comments that open a written file, after its version line: who wrote
+/// it, the spec, method, inverse and cost of the header.
+pub(super) fn header_comments(s: &mut String, header: &QasmHeader) {
+    let _ = writeln!(s, "// written by oraculum {}", env!("CARGO_PKG_VERSION"));
+    if let Some(n) = &header.name {
+        let _ = writeln!(s, "// spec: {}", n.replace('\n', " "));
+    }
+    if let Some(m) = &header.method {
+        let _ = writeln!(s, "// method: {m}");
+    }
+    if header.inverse {
+        s.push_str(
+            "// inverse: this circuit undoes the spec's map (check it with verify --inverse)\n",
+        );
+    }
+    if let Some(cost) = &header.cost {
+        let _ = writeln!(
+            s,
+            "// cost: qubits {}, toffoli {}, cnot {}, not {}, depth {}, toffoli depth {}, t-count {}",
+            cost.qubits, cost.toffoli, cost.cnot, cost.not, cost.depth, cost.toffoli_depth, cost.t_count
+        );
+        if cost.temporary_and + cost.measured > 0 {
+            let _ = writeln!(
+                s,
+                "// fault-tolerant cost: temporary and {} (4 T each), measured uncomputes {} (no T), toffoli-equivalent {}",
+                cost.temporary_and, cost.measured, cost.toffoli_equivalent
+            );
+        }
+    }
+}
+
+/// The phase line's comment and the line map, each register named by
+/// `register` (the file's spelling of it).
+pub(super) fn line_comments(s: &mut String, c: &Circuit, register: &dyn Fn(&str) -> String) {
+    if let Some(p) = c.phase() {
+        let l = &c.lines()[p.index()];
+        let _ = writeln!(
+            s,
+            "// phase oracle: {}[{}] is prepared in |-> (x, h) and restored, so the gates between apply (-1)^f(x)",
+            register(&l.register),
+            l.index
+        );
+    }
+    s.push_str("// lines:\n");
+    for l in c.lines() {
+        let label = if l.label.is_empty() || l.role == Role::Ancilla {
+            String::new()
+        } else {
+            format!(" = {}", l.label.replace('\n', " "))
+        };
+        let _ = writeln!(
+            s,
+            "//   {}[{}]{label} ({})",
+            register(&l.register),
+            l.index,
+            role_word(l.role)
+        );
+    }
 }
 
 /// Writes a lowered circuit as OpenQASM 2 with `x`, `cx` and `ccx`, and, for
@@ -82,65 +155,14 @@ pub(super) fn write_with(
 ) -> Result<String, WriteError> {
     let mut s = String::new();
     s.push_str("OPENQASM 2.0;\ninclude \"qelib1.inc\";\n");
-    let _ = writeln!(s, "// written by oraculum {}", env!("CARGO_PKG_VERSION"));
-    if let Some(n) = &header.name {
-        let _ = writeln!(s, "// spec: {}", n.replace('\n', " "));
-    }
-    if let Some(m) = &header.method {
-        let _ = writeln!(s, "// method: {m}");
-    }
-    if header.inverse {
-        s.push_str(
-            "// inverse: this circuit undoes the spec's map (check it with verify --inverse)\n",
-        );
-    }
-    if let Some(cost) = &header.cost {
-        let _ = writeln!(
-            s,
-            "// cost: qubits {}, toffoli {}, cnot {}, not {}, depth {}, toffoli depth {}, t-count {}",
-            cost.qubits, cost.toffoli, cost.cnot, cost.not, cost.depth, cost.toffoli_depth, cost.t_count
-        );
-        if cost.temporary_and + cost.measured > 0 {
-            let _ = writeln!(
-                s,
-                "// fault-tolerant cost: temporary and {} (4 T each), measured uncomputes {} (no T), toffoli-equivalent {}",
-                cost.temporary_and, cost.measured, cost.toffoli_equivalent
-            );
-        }
-    }
-    if let Some(p) = c.phase() {
-        let l = &c.lines()[p.index()];
-        let _ = writeln!(
-            s,
-            "// phase oracle: {}[{}] is prepared in |-> (x, h) and restored, so the gates between apply (-1)^f(x)",
-            l.register, l.index
-        );
-    }
-    s.push_str("// lines:\n");
-    for l in c.lines() {
-        let label = if l.label.is_empty() || l.role == Role::Ancilla {
-            String::new()
-        } else {
-            format!(" = {}", l.label.replace('\n', " "))
-        };
-        let _ = writeln!(
-            s,
-            "//   {}[{}]{label} ({})",
-            l.register,
-            l.index,
-            role_word(l.role)
-        );
-    }
-    for (name, size) in c.registers() {
-        let mut chars = name.chars();
-        let ok = matches!(chars.next(), Some(ch) if ch.is_ascii_lowercase())
-            && chars.all(|ch| ch.is_ascii_alphanumeric() || ch == '_');
-        if !ok {
-            return Err(WriteError::BadRegister(name));
-        }
+    header_comments(&mut s, header);
+    line_comments(&mut s, c, &|r| r.to_string());
+    let registers = c.registers();
+    for (name, size) in &registers {
+        check_register(name)?;
         let _ = writeln!(s, "qreg {name}[{size}];");
     }
-    let creg = creg_name(c);
+    let creg = creg_name(&registers);
     if c.measured_count() > 0 {
         let _ = writeln!(s, "creg {creg}[1];");
     }

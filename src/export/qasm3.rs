@@ -9,9 +9,11 @@
 //! `ctrl`, ...) is written with a trailing `_` (`x_`, `y_`, `ctrl_`); the
 //! reader ([`super::read_qasm3`]) reads such a name back as the stem.
 
-use super::qasm2::{QasmHeader, WriteError};
+use super::qasm2::{
+    check_register, creg_name, header_comments, line_comments, QasmHeader, WriteError,
+};
 use crate::circuit::layout::QASM_WORDS;
-use crate::circuit::{Circuit, Gate, Line, Role};
+use crate::circuit::{Circuit, Gate, Line};
 use std::fmt::Write as _;
 
 /// How the OpenQASM 3 writer shapes the circuit.
@@ -32,15 +34,6 @@ pub fn qasm3_register_name(name: &str) -> String {
     }
 }
 
-fn role_word(r: Role) -> &'static str {
-    match r {
-        Role::Input => "input",
-        Role::Output => "output",
-        Role::Data => "data",
-        Role::Ancilla => "ancilla, starts and ends at 0",
-    }
-}
-
 /// Writes `c` as OpenQASM 3 (see the module's comment). Without
 /// `keep_mct` the circuit must be lowered (at most two positive controls
 /// per flip).
@@ -55,12 +48,7 @@ pub fn write_qasm3(
         .map(|(n, s)| (qasm3_register_name(&n), s))
         .collect();
     for (name, _) in &regs {
-        let mut chars = name.chars();
-        let ok = matches!(chars.next(), Some(ch) if ch.is_ascii_lowercase())
-            && chars.all(|ch| ch.is_ascii_alphanumeric() || ch == '_');
-        if !ok {
-            return Err(WriteError::BadRegister(name.clone()));
-        }
+        check_register(name)?;
     }
     if let Some(g) = &opts.gate {
         if !super::gatedef::valid_gate_name(g) || regs.iter().any(|(r, _)| r == g) {
@@ -71,27 +59,9 @@ pub fn write_qasm3(
         }
     }
     let mut s = String::from("OPENQASM 3.0;\ninclude \"stdgates.inc\";\n");
-    let _ = writeln!(s, "// written by oraculum {}", env!("CARGO_PKG_VERSION"));
-    if let Some(n) = &header.name {
-        let _ = writeln!(s, "// spec: {}", n.replace('\n', " "));
-    }
-    if let Some(m) = &header.method {
-        let _ = writeln!(s, "// method: {m}");
-    }
-    if header.inverse {
-        s.push_str(
-            "// inverse: this circuit undoes the spec's map (check it with verify --inverse)\n",
-        );
-    }
-    if let Some(cost) = &header.cost {
-        let _ = writeln!(
-            s,
-            "// cost: qubits {}, toffoli {}, cnot {}, not {}, depth {}, toffoli depth {}, t-count {}",
-            cost.qubits, cost.toffoli, cost.cnot, cost.not, cost.depth, cost.toffoli_depth, cost.t_count
-        );
-        if opts.keep_mct {
-            s.push_str("// the gates below are not lowered (ctrl(k) @ x); the cost is of the lowered circuit\n");
-        }
+    header_comments(&mut s, header);
+    if header.cost.is_some() && opts.keep_mct {
+        s.push_str("// the gates below are not lowered (ctrl(k) @ x); the cost is of the lowered circuit\n");
     }
     s.push_str(
         "// registers whose names OpenQASM 3 reserves carry a trailing '_' (x_, y_, ctrl_)\n",
@@ -100,28 +70,7 @@ pub fn write_qasm3(
         let info = &c.lines()[l.index()];
         format!("{}[{}]", qasm3_register_name(&info.register), info.index)
     };
-    if let Some(p) = c.phase() {
-        let _ = writeln!(
-            s,
-            "// phase oracle: {} is prepared in |-> (x, h) and restored, so the gates between apply (-1)^f(x)",
-            q(p)
-        );
-    }
-    s.push_str("// lines:\n");
-    for l in c.lines() {
-        let label = if l.label.is_empty() || l.role == Role::Ancilla {
-            String::new()
-        } else {
-            format!(" = {}", l.label.replace('\n', " "))
-        };
-        let _ = writeln!(
-            s,
-            "//   {}[{}]{label} ({})",
-            qasm3_register_name(&l.register),
-            l.index,
-            role_word(l.role)
-        );
-    }
+    line_comments(&mut s, c, &qasm3_register_name);
     let args = super::gatedef::argument_names(c);
     let name = |l: Line| match &opts.gate {
         Some(_) => args[l.index()].clone(),
@@ -129,16 +78,7 @@ pub fn write_qasm3(
     };
     let indent = if opts.gate.is_some() { "  " } else { "" };
     let mut body = String::new();
-    let creg = (1..)
-        .map(|i| {
-            if i == 1 {
-                "m".to_string()
-            } else {
-                format!("m{i}")
-            }
-        })
-        .find(|n| !regs.iter().any(|(r, _)| r == n))
-        .expect("some name is free");
+    let creg = creg_name(&regs);
     for (k, g) in c.gates().iter().enumerate() {
         write_gate(&mut body, g, k, &name, indent, &creg, opts.keep_mct)?;
     }
