@@ -589,15 +589,7 @@ fn model_counts_of_random_predicates_match_enumeration() {
             .new_tree(&mut runner)
             .unwrap()
             .current();
-        let toml = format!(
-            "kind = \"function\"\ninputs = [{}]\noutputs = [\"f\"]\n[expr]\nf = \"{}\"\n",
-            names
-                .iter()
-                .map(|n| format!("\"{n}\""))
-                .collect::<Vec<_>>()
-                .join(", "),
-            e.render(&names[..10])
-        );
+        let toml = common::expr_toml(&names, &e.render(&names[..10]));
         let spec = oraculum::parse_spec("r.toml", &toml).unwrap();
         let want = (0..1u64 << 10).filter(|&x| e.eval(x)).count() as u64;
         let got = oraculum::verify::count_marked(&spec, oraculum::verify::DEFAULT_MAX_STATES, &())
@@ -619,15 +611,7 @@ fn a_wide_count_matches_direct_enumeration() {
             .new_tree(&mut runner)
             .unwrap()
             .current();
-        let toml = format!(
-            "kind = \"function\"\ninputs = [{}]\noutputs = [\"f\"]\n[expr]\nf = \"{}\"\n",
-            names
-                .iter()
-                .map(|n| format!("\"{n}\""))
-                .collect::<Vec<_>>()
-                .join(", "),
-            e.render(&names)
-        );
+        let toml = common::expr_toml(&names, &e.render(&names));
         let spec = oraculum::parse_spec("w.toml", &toml).unwrap();
         let want = (0..1u64 << 20).filter(|&x| e.eval(x)).count() as u64;
         let got = oraculum::verify::count_marked(&spec, 1 << 20, &()).unwrap();

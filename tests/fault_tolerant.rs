@@ -30,8 +30,7 @@ fn proven(v: &oraculum::Verification) -> bool {
 }
 
 fn arith(op: &str, width: usize, extra: &str) -> Spec {
-    let text = format!("kind = \"arithmetic\"\nop = \"{op}\"\nwidth = {width}\n{extra}");
-    parse_spec("t.toml", &text).unwrap()
+    parse_spec("t.toml", &common::arith_toml(op, width, extra)).unwrap()
 }
 
 // Gidney, "Halving the cost of quantum addition", Quantum 2, 74 (2018),

@@ -3,15 +3,14 @@
 //! common practice: each output bit XORs two neighbouring inputs), and `auto`
 //! picks it over transformation-based synthesis.
 
+mod common;
+
 use oraculum::pipeline::build_one;
 use oraculum::{build, parse_spec, BuildOptions, Method};
 
 fn gray_spec(n: usize) -> String {
-    let images: Vec<String> = (0..1u64 << n).map(|x| (x ^ (x >> 1)).to_string()).collect();
-    format!(
-        "kind = \"permutation\"\nname = \"gray\"\nwidth = {n}\nimages = [{}]\n",
-        images.join(", ")
-    )
+    let images: Vec<u64> = (0..1u64 << n).map(|x| x ^ (x >> 1)).collect();
+    common::permutation_toml(n, &images)
 }
 
 #[test]

@@ -234,6 +234,15 @@ pub fn run_registers(
     out
 }
 
+/// A one-output function spec `f = expr` over `names` as TOML text.
+pub fn expr_toml(names: &[String], expr: &str) -> String {
+    let quoted: Vec<String> = names.iter().map(|n| format!("\"{n}\"")).collect();
+    format!(
+        "kind = \"function\"\ninputs = [{}]\noutputs = [\"f\"]\n[expr]\nf = \"{expr}\"\n",
+        quoted.join(", ")
+    )
+}
+
 /// An arithmetic spec as TOML text.
 pub fn arith_toml(op: &str, width: usize, extra: &str) -> String {
     format!("kind = \"arithmetic\"\nop = \"{op}\"\nwidth = {width}\n{extra}\n")
