@@ -28,6 +28,7 @@ fn power_toml(c: u64, n: u64, e: usize, controlled: bool) -> String {
 fn windowed(exponent: usize, factor: usize) -> Choice {
     Choice {
         power: Some(PowerForm::Windowed { exponent, factor }),
+        ..Default::default()
     }
 }
 
@@ -140,6 +141,7 @@ fn windowed_streaming_count_matches_the_built_circuit() {
 fn the_cost_model_picks_the_cheaper_construction() {
     let per_bit = Choice {
         power: Some(PowerForm::PerBit),
+        ..Default::default()
     };
     for (c, n, e, controlled) in [
         (7u64, 15u64, 4usize, false),
@@ -155,6 +157,7 @@ fn the_cost_model_picks_the_cheaper_construction() {
             &a,
             &Choice {
                 power: Some(picked),
+                ..Default::default()
             },
         )
         .0

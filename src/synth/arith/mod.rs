@@ -35,6 +35,7 @@ mod table;
 mod weight;
 mod window;
 
+pub use multiply::KARATSUBA_FROM;
 pub use power::{power_form, PowerForm};
 pub use table::{arith_images, TABLE_MAX_LINES};
 
@@ -100,6 +101,9 @@ fn const_bit(k: &BigUint, i: usize) -> bool {
 pub struct Choice {
     /// How `power` is built (default: [`power_form`]).
     pub power: Option<PowerForm>,
+    /// `multiply` of two registers: Karatsuba from this width on, schoolbook
+    /// below (default [`KARATSUBA_FROM`]; values below 4 count as 4).
+    pub karatsuba_from: Option<usize>,
 }
 
 /// Generates the circuit of MCT gates for an arithmetic spec.
@@ -178,7 +182,14 @@ fn generate(b: &mut Builder, spec: &ArithSpec, r: &Registers, choice: &Choice) {
         (ArithOp::Multiply, Some(n)) => multiply::multiply_mod_in_place(b, &r.x, k, n, r.ctrl),
         (ArithOp::Multiply, None) => match &spec.constant {
             Some(c) => multiply::multiply_const(b, &r.a, c, &r.p, r.ctrl),
-            None => multiply::multiply(b, &r.a, &r.b, &r.p, r.ctrl),
+            None => multiply::multiply(
+                b,
+                &r.a,
+                &r.b,
+                &r.p,
+                r.ctrl,
+                choice.karatsuba_from.unwrap_or(KARATSUBA_FROM),
+            ),
         },
         (ArithOp::Power, n) => power::power(
             b,
