@@ -47,11 +47,17 @@ pub fn candidates(spec: &Spec, thorough: bool) -> Vec<Method> {
             if a.layout().sizes().iter().map(|s| s.1).sum::<usize>()
                 <= crate::synth::TABLE_MAX_LINES =>
         {
-            vec![
+            let mut v = vec![
                 Method::Structural,
                 Method::Transform,
                 Method::TransformBidir,
-            ]
+            ];
+            // An op that writes an output register is also a function of
+            // its other lines.
+            if crate::synth::arith_function(a).is_some() {
+                v.extend([Method::ReedMuller, Method::Esop, Method::Bennett]);
+            }
+            v
         }
         SpecBody::Arithmetic(_) => vec![Method::Structural],
     }

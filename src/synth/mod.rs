@@ -22,7 +22,7 @@ mod transform;
 pub use arith::gidney::gidney_add;
 pub use arith::lookup::unary_lookup;
 pub use arith::{
-    arith_images, arith_lines, arithmetic, arithmetic_measured, arithmetic_tally,
+    arith_function, arith_images, arith_lines, arithmetic, arithmetic_measured, arithmetic_tally,
     arithmetic_tally_with, arithmetic_with, power_form, Choice, PowerForm, Registers, Tally,
     KARATSUBA_FROM, TABLE_MAX_LINES,
 };
@@ -392,10 +392,48 @@ fn synthesize_plain(
             check_gates(&c, limits)?;
             Ok(c.into())
         }
+        (SpecBody::Arithmetic(a), m @ (Method::ReedMuller | Method::Esop | Method::Bennett)) => {
+            // The same map as a function of the lines it does not write.
+            let (f, ins, outs) = arith_function(a).ok_or(SynthError::NotApplicable {
+                method: m.name(),
+                kind: "arithmetic",
+                hint: "a function table of the map takes an op that writes an output register (compare, weight, multiply without modulus, lookup) and at most 16 register lines; use structural",
+            })?;
+            let mut s: Synthesis = match m {
+                Method::ReedMuller => reed_muller(&f, limits)?.into(),
+                Method::Esop => esop::esop(&f, limits, progress)?.into(),
+                _ => bennett(&f, limits, progress)?,
+            };
+            // x (inputs), y (outputs), then ancillae: onto the registers.
+            let (n, m_out) = (ins.len(), outs.len());
+            let mut c = Circuit::new(arith_lines(a).0);
+            let base = c.width();
+            while c.width() < base + s.circuit.width() - n - m_out {
+                c.add_ancilla();
+            }
+            for g in s.circuit.gates() {
+                let g = g
+                    .renamed(|l| {
+                        let i = l.index();
+                        if i < n {
+                            ins[i]
+                        } else if i < n + m_out {
+                            outs[i - n]
+                        } else {
+                            crate::circuit::Line((base + i - n - m_out) as u32)
+                        }
+                    })
+                    .expect("a one-to-one renaming");
+                c.push(g);
+            }
+            check_gates(&c, limits)?;
+            s.circuit = c;
+            Ok(s)
+        }
         (SpecBody::Arithmetic(_), m) => Err(SynthError::NotApplicable {
             method: m.name(),
             kind: "arithmetic",
-            hint: "use structural, transform, transform-bidir or auto",
+            hint: "use structural, transform, transform-bidir, reed-muller, esop, bennett (output-writing ops) or auto",
         }),
     }
 }

@@ -37,7 +37,7 @@ mod window;
 
 pub use multiply::KARATSUBA_FROM;
 pub use power::{power_form, PowerForm};
-pub use table::{arith_images, TABLE_MAX_LINES};
+pub use table::{arith_function, arith_images, TABLE_MAX_LINES};
 
 pub use build::{Bit, Builder, Tally};
 pub use measured::{arithmetic_measured, lookup_of};
