@@ -66,17 +66,21 @@ use std::fmt;
 #[strum(serialize_all = "kebab-case")]
 pub enum Method {
     /// Positive-polarity Reed-Muller expansion, one MCT per monomial.
-    #[strum(message = "functions: positive-polarity Reed-Muller expansion, one gate per monomial")]
+    #[strum(
+        message = "functions (and small output-writing arithmetic): positive-polarity Reed-Muller expansion, one gate per monomial"
+    )]
     ReedMuller,
     /// ESOP extraction and exorlink minimization, one gate per cube and output.
-    #[strum(message = "functions: minimized exclusive-or sum of products, one gate per cube")]
+    #[strum(
+        message = "functions (and small output-writing arithmetic): minimized exclusive-or sum of products, one gate per cube"
+    )]
     Esop,
     /// Minimum ESOP (at most 5 inputs), one gate per cube and output.
     #[strum(message = "functions of at most 5 inputs: minimum exclusive-or sum of products")]
     EsopExact,
     /// Logic network computed into ancillae, copied out, uncomputed.
     #[strum(
-        message = "functions: logic network computed, copied, uncomputed; a qubit budget schedules recomputation"
+        message = "functions (and small output-writing arithmetic): logic network computed, copied, uncomputed; a qubit budget schedules recomputation"
     )]
     Bennett,
     /// The network rewritten to fewer ANDs, then computed, copied, uncomputed.
