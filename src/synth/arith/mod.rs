@@ -106,6 +106,26 @@ pub struct Choice {
     pub karatsuba_from: Option<usize>,
 }
 
+/// The construction the generator uses for `spec` where an op has more
+/// than one (`power`, `multiply` of two registers), in words; `None` for
+/// the other ops.
+pub fn construction(spec: &ArithSpec) -> Option<String> {
+    match spec.op {
+        ArithOp::Power => Some(match power_form(spec) {
+            PowerForm::PerBit => "one controlled modular multiplication per exponent bit".into(),
+            PowerForm::Windowed { exponent, factor } => format!(
+                "windowed: lookups addressed by {exponent} exponent bits and {factor} factor bits"
+            ),
+        }),
+        ArithOp::Multiply if spec.constant.is_none() => Some(if spec.width >= KARATSUBA_FROM {
+            format!("Karatsuba, schoolbook below {KARATSUBA_FROM} bits")
+        } else {
+            "schoolbook".into()
+        }),
+        _ => None,
+    }
+}
+
 /// Generates the circuit of MCT gates for an arithmetic spec.
 pub fn arithmetic(spec: &ArithSpec) -> Circuit {
     arithmetic_with(spec, &Choice::default())
