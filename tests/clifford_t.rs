@@ -363,8 +363,9 @@ fn measured(s: &oraculum::Spec, m: Method) -> (Circuit, Cost) {
     (o.lowered, o.cost)
 }
 
-// Small whole circuits in measure mode: Gidney adders, a controlled lookup,
-// majority and greenhouse by Bennett.
+// Small whole circuits in measure mode: Gidney adders (plain, with a
+// carry-out, controlled), comparators on the same carry chain, a controlled
+// lookup, majority and greenhouse by Bennett.
 #[test]
 fn small_circuits_match_their_map_in_clifford_t_form() {
     common::tables();
@@ -372,6 +373,9 @@ fn small_circuits_match_their_map_in_clifford_t_form() {
     let specs = [
         ("kind = \"arithmetic\"\nop = \"add\"\nwidth = 3\n", Method::Structural),
         ("kind = \"arithmetic\"\nop = \"add\"\nwidth = 3\ncarry_out = true\n", Method::Structural),
+        ("kind = \"arithmetic\"\nop = \"add\"\nwidth = 3\ncontrolled = true\n", Method::Structural),
+        ("kind = \"arithmetic\"\nop = \"compare\"\nwidth = 3\nrelation = \"<\"\n", Method::Structural),
+        ("kind = \"arithmetic\"\nop = \"compare\"\nwidth = 2\nrelation = \">=\"\ncontrolled = true\n", Method::Structural),
         ("kind = \"arithmetic\"\nop = \"lookup\"\nwidth = 2\ndata_width = 2\ncontrolled = true\ndata = [1, 2, 3, 1]\n", Method::Structural),
         ("kind = \"function\"\ninputs = [\"a\", \"b\", \"c\"]\noutputs = [\"most\"]\n[table]\nmost = \"0xe8\"\n", Method::Xag),
         ("kind = \"function\"\ninputs = [\"a\", \"b\", \"c\", \"d\"]\noutputs = [\"y\"]\n[expr]\ny = \"a & b & c & !d\"\n", Method::Esop),
