@@ -2,8 +2,9 @@
 //! in Clifford+T form, reads back to the gates of its lowered circuit and is
 //! proven from disk by `verify` on the command line; a file with one `t`
 //! turned into `tdg` (or back), or one statement moved, is refused at its
-//! line, and statements outside the form at theirs. What the sequences mean
-//! is checked by state-vector simulation in tests/clifford_t.rs.
+//! line, and statements outside the form at theirs; a gadget's CZ moved is
+//! refused or refuted, its reset dropped refused. What the sequences mean is
+//! checked by state-vector simulation in tests/clifford_t.rs.
 
 mod common;
 
@@ -218,4 +219,138 @@ fn statements_outside_the_form_are_refused_where_they_are() {
     // A file that ends inside a Toffoli.
     let e = read("end.qasm", &format!("{head}h q[2];\nt q[0];\n")).unwrap_err();
     assert!(e.to_string().contains("ends early"), "{e}");
+}
+
+/// Whether line `l` holds the same value as line `m` just before gate `k` of
+/// `c` on every basis state of its free lines (ancillae at 0): then a
+/// gadget's control moved from `m` to `l` is the same gadget.
+fn copies(c: &Circuit, k: usize, l: usize, m: usize) -> bool {
+    let free: Vec<usize> = (0..c.width())
+        .filter(|&i| c.lines()[i].register != "anc")
+        .collect();
+    assert!(free.len() <= 20 && c.width() <= 64);
+    (0u64..1 << free.len()).all(|st| {
+        let mut x = 0u64;
+        for (j, &i) in free.iter().enumerate() {
+            x |= ((st >> j) & 1) << i;
+        }
+        let x = c.gates()[..k].iter().fold(x, |x, h| h.apply(x));
+        (x >> l) & 1 == (x >> m) & 1
+    })
+}
+
+// The mutation campaign on the gadget as a file holds it, plain OpenQASM 2
+// and Clifford+T alike: its CZ moved (one of its qubits replaced by every
+// other qubit in turn) is refused by the reader or refuted by the verifier
+// (a measured uncompute whose ancilla does not hold the AND), unless the
+// qubit moved to holds a copy of the one it replaced at that point (then it
+// is the same gadget, checked by running the gates before); its reset (the
+// `if(m==1) x` on the ancilla) dropped is refused at the next line (at the
+// gadget's first line or the file's last when nothing follows).
+#[test]
+fn gadgets_with_their_cz_moved_or_their_reset_dropped_are_refused_or_refuted() {
+    common::tables();
+    let (mut refused, mut refuted, mut same, mut dropped) = (0, 0, 0, 0);
+    for stem in ["greenhouse", "seating", "tide-gate", "glyph-rom"] {
+        let path = common::repo().join(format!("specs/{stem}.toml"));
+        let s = parse_spec("s", &std::fs::read_to_string(path).unwrap()).unwrap();
+        let o = build(
+            &s,
+            &BuildOptions {
+                uncompute: Uncompute::Measure,
+                ..BuildOptions::default()
+            },
+        )
+        .unwrap();
+        for text in [
+            oraculum::write_qasm(&o.lowered, &Default::default()).unwrap(),
+            o.clifford_t().unwrap(),
+        ] {
+            let c = read(stem, &text).unwrap();
+            let names: Vec<String> = c
+                .lines()
+                .iter()
+                .map(|l| format!("{}[{}]", l.register, l.index))
+                .collect();
+            let lines: Vec<&str> = text.lines().collect();
+            let gadgets: Vec<usize> = (0..lines.len())
+                .filter(|&i| lines[i].starts_with("if(m==1) cz "))
+                .collect();
+            assert_eq!(gadgets.len(), c.measured_count(), "{stem}");
+            assert!(!gadgets.is_empty(), "{stem}");
+            for (nth, &i) in gadgets.iter().enumerate() {
+                let k = c
+                    .gates()
+                    .iter()
+                    .enumerate()
+                    .filter(|(_, g)| g.is_measured())
+                    .nth(nth)
+                    .unwrap()
+                    .0;
+                let g = &c.gates()[k];
+                let pair = lines[i]
+                    .trim_start_matches("if(m==1) cz ")
+                    .trim_end_matches(';');
+                let (a, b) = pair.split_once(',').unwrap();
+                for (keep, old) in [(a, b), (b, a)] {
+                    let m = names.iter().position(|n| n == old).unwrap();
+                    for (l, new) in names.iter().enumerate() {
+                        if new == a || new == b {
+                            continue;
+                        }
+                        let mut mutated = lines.clone();
+                        let moved = format!("if(m==1) cz {keep},{new};");
+                        mutated[i] = &moved;
+                        let Ok(bad) = read(stem, &mutated.join("\n")) else {
+                            refused += 1;
+                            continue;
+                        };
+                        match oraculum::verify(&bad, &s, &Default::default()).unwrap() {
+                            oraculum::Verdict::Refuted { counterexample } => {
+                                assert!(
+                                    counterexample.problem.contains("measured uncompute"),
+                                    "{stem}: {}",
+                                    counterexample.problem
+                                );
+                                refuted += 1;
+                            }
+                            v => {
+                                assert!(
+                                    l != g.target().index() && copies(&c, k, l, m),
+                                    "{stem}: cz moved to {moved} proven: {v:?}"
+                                );
+                                same += 1;
+                            }
+                        }
+                    }
+                }
+                // The reset dropped: the statement after the cz's x's.
+                let reset = (i + 1..lines.len())
+                    .find(|&j| lines[j] == format!("if(m==1) x {};", names[g.target().index()]))
+                    .unwrap();
+                let mut mutated = lines.clone();
+                mutated.remove(reset);
+                let e = read(stem, &mutated.join("\n")).unwrap_err();
+                let at = e.located().unwrap().location.line;
+                // At the line after it, or, when it was the file's last
+                // statement, at the gadget's `h` (plain reader) or the last
+                // line (Clifford+T reader: the file ends early).
+                let h = lines[..i]
+                    .iter()
+                    .rposition(|l| l.starts_with("measure "))
+                    .unwrap();
+                assert!(
+                    at == reset + 1 || (reset == mutated.len() && (at == h || at == mutated.len())),
+                    "{stem}: reset dropped at line {}, {e}",
+                    reset + 1
+                );
+                dropped += 1;
+            }
+        }
+    }
+    assert!(
+        refuted > 50 && dropped >= 16,
+        "{refuted} refuted, {dropped} dropped"
+    );
+    println!("cz moved: {refused} refused, {refuted} refuted, {same} same gadget; {dropped} resets dropped");
 }

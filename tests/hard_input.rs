@@ -1,7 +1,7 @@
-//! Hard input: random and mutated specs, expressions and OpenQASM files (plain
-//! and Clifford+T) go
-//! through every reader (and, when they parse, the whole pipeline under small
-//! limits) without a panic; the binary answers bad files with exit 2.
+//! Hard input: random and mutated specs, expressions and OpenQASM files
+//! (plain and Clifford+T) go through every reader (and, when they parse, the
+//! whole pipeline under small limits) without a panic; the binary answers bad
+//! files with exit 2.
 
 mod common;
 
