@@ -119,6 +119,12 @@ fn main() {
         };
         row(&name, &s, &published, n <= 8);
     }
+    for n in [4usize, 8] {
+        let s = arith(format!(
+            "kind = \"arithmetic\"\nop = \"multiply\"\nwidth = {n}\n"
+        ));
+        row(&format!("multiply {n} x {n}"), &s, "", n <= 4);
+    }
     for w in [3usize, 6, 8] {
         let l = 1usize << w;
         for ctrl in [false, true] {

@@ -234,6 +234,46 @@ fn modular_register_addition_is_measured() {
     }
 }
 
+// The schoolbook multiplier p ^= a * b in measure mode: each row after the
+// first is Gidney's controlled adder with a carry-out (2n + 1 temporary
+// ANDs), built and undone; proven, with measured uncomputes and fewer
+// Toffoli-equivalents than toffoli mode has Toffolis (no published count for
+// this form; figures in BENCHMARKS.md).
+#[test]
+fn register_multiplier_uses_the_controlled_adder() {
+    for n in 2..=5 {
+        for controlled in [false, true] {
+            let s = arith(
+                "multiply",
+                n,
+                if controlled {
+                    "controlled = true\n"
+                } else {
+                    ""
+                },
+            );
+            let o = build_one(&s, Method::Structural, &measure(Some(Route::Auto)), &()).unwrap();
+            let what = format!("multiply {n}, controlled {controlled}");
+            assert!(proven(&o.verification), "{what}: {:?}", o.verification);
+            let mut plain = measure(None);
+            plain.uncompute = Uncompute::Toffoli;
+            let t = build_one(&s, Method::Structural, &plain, &()).unwrap();
+            // Every row but the first: 2n + 1 ANDs computed, as many measured.
+            assert!(
+                o.cost.measured >= 2 * (n - 1) * (2 * n + 1),
+                "{what}: {:?}",
+                o.cost
+            );
+            assert!(
+                o.cost.toffoli_equivalent < t.cost.toffoli && o.cost.t_count < t.cost.t_count,
+                "{what}: {:?} against {:?}",
+                o.cost,
+                t.cost
+            );
+        }
+    }
+}
+
 fn lines(regs: &[(&str, usize, Role)]) -> Vec<LineInfo> {
     regs.iter()
         .flat_map(|&(r, n, role)| {

@@ -1,8 +1,9 @@
 //! The arithmetic generators of the fault-tolerant constructions, by op:
 //! Gidney's adder ([`super::gidney`]) for `add` and `sub` without a control
 //! in `measure` mode, and unary iteration ([`super::lookup`]) for `lookup` in
-//! both modes; the register comparator, controlled register adders and
-//! modular addition of registers by the structural generators with the
+//! both modes; the register comparator, controlled register adders,
+//! modular addition of registers and the register multiplier by the
+//! structural generators with the
 //! measured adder and comparator of [`super::chain`]. Every other op keeps
 //! its structural circuit, whose provable uncomputes the pipeline measures.
 
@@ -52,6 +53,9 @@ pub fn arithmetic_measured(spec: &ArithSpec) -> Option<Circuit> {
         ArithOp::Compare if spec.constant.is_none() => Some(in_measure_form(spec)),
         ArithOp::Add | ArithOp::Subtract if plain => Some(in_measure_form(spec)),
         ArithOp::Add | ArithOp::Subtract if spec.modulus.is_some() && spec.constant.is_none() => {
+            Some(in_measure_form(spec))
+        }
+        ArithOp::Multiply if spec.constant.is_none() && spec.modulus.is_none() => {
             Some(in_measure_form(spec))
         }
         _ => None,
