@@ -1138,7 +1138,8 @@ pub fn read_qasm3_with(path: &str, text: &str, limits: &ReadLimits) -> Result<Ci
     Ok(c)
 }
 
-/// Reads an OpenQASM 2 or 3 file, by its version statement.
+/// Reads an OpenQASM 2 or 3 file, by its version statement (an OpenQASM 2
+/// file marked as the Clifford+T form by that form's reader).
 pub fn read_circuit_with(
     path: &str,
     text: &str,
@@ -1146,6 +1147,8 @@ pub fn read_circuit_with(
 ) -> Result<Circuit, ReadError> {
     if is_qasm3(text) {
         read_qasm3_with(path, text, limits)
+    } else if super::is_clifford_t(text) {
+        super::read_clifford_t_with(path, text, limits)
     } else {
         super::qasm2::read_qasm_with(path, text, limits)
     }
