@@ -139,6 +139,7 @@ pub struct Builder {
     ctrl: Option<Line>,
     free: Vec<Line>,
     counting: Option<Tally>,
+    measure: bool,
 }
 
 impl Builder {
@@ -149,6 +150,7 @@ impl Builder {
             ctrl,
             free: Vec::new(),
             counting: None,
+            measure: false,
         }
     }
 
@@ -221,6 +223,22 @@ impl Builder {
         self.ctrl = ctrl;
     }
 
+    /// The line that effect gates are controlled by now.
+    pub fn ctrl(&self) -> Option<Line> {
+        self.ctrl
+    }
+
+    /// Builds with temporary ANDs and measured uncomputes where a generator
+    /// has such a form (`--uncompute measure`).
+    pub fn set_measure(&mut self, on: bool) {
+        self.measure = on;
+    }
+
+    /// Whether the generators use their measured forms.
+    pub fn measure(&self) -> bool {
+        self.measure
+    }
+
     /// A clean ancilla (reused when one was released).
     pub fn ancilla(&mut self) -> Line {
         if let Some(l) = self.free.pop() {
@@ -269,8 +287,9 @@ impl Builder {
         }
     }
 
-    /// Reverses the order of the gates since `start`: every gate is its own
-    /// inverse, so the part becomes its inverse.
+    /// Reverses the order of the gates since `start`, each replaced by its
+    /// inverse (a flip is its own; a temporary AND and a measured uncompute
+    /// are each other's), so the part becomes its inverse.
     /// (Counting, the order does not change the tally.)
     pub fn reverse_from(&mut self, start: Mark) {
         if self.counting.is_some() {
@@ -278,6 +297,9 @@ impl Builder {
         }
         let mut gates = self.circuit.gates().to_vec();
         gates[start.index..].reverse();
+        for g in &mut gates[start.index..] {
+            *g = g.inverse();
+        }
         self.circuit.set_gates(gates);
     }
 
@@ -290,7 +312,7 @@ impl Builder {
         }
         let gates: Vec<Gate> = self.circuit.gates()[start.index..end.index].to_vec();
         for g in gates.into_iter().rev() {
-            self.circuit.push(g);
+            self.circuit.push(g.inverse());
         }
     }
 

@@ -24,6 +24,7 @@
 //! published count it meets. The verifier checks them all.
 
 mod build;
+mod chain;
 mod compare;
 pub mod gidney;
 pub mod lookup;
@@ -226,8 +227,12 @@ fn generate(b: &mut Builder, spec: &ArithSpec, r: &Registers, choice: &Choice) {
 }
 
 /// `b += a` (mod `2^n`, carry to `cout`), Cuccaro form when uncontrolled,
-/// carry chain with controlled effects otherwise.
+/// carry chain with controlled effects otherwise; in the builder's measure
+/// form, Gidney's chain of temporary ANDs ([`chain::add`]).
 fn add(b: &mut Builder, a: &[Line], sum: &[Line], cout: Option<Line>, ctrl: Option<Line>) {
+    if b.measure() {
+        return chain::add(b, a, sum, cout, ctrl);
+    }
     match ctrl {
         None => cuccaro(b, a, sum, cout),
         Some(c) => {
@@ -315,8 +320,12 @@ fn add_in_place(b: &mut Builder, x: &[Line], q: &[Bit], cout: Option<Line>) {
 }
 
 /// `y ^= (a < b)`: the carry-out of `!a + b` on an in-place MAJ chain, undone
-/// afterwards; one clean ancilla, `2n - 1` Toffolis.
+/// afterwards; one clean ancilla, `2n - 1` Toffolis. In the builder's measure
+/// form, the chain of temporary ANDs ([`chain::less_than`]): `n`.
 fn less_than(b: &mut Builder, a: &[Line], bb: &[Line], y: Line) {
+    if b.measure() {
+        return chain::less_than(b, a, bb, y);
+    }
     let w = a.len();
     if w == 1 {
         b.and_into(y, Bit::of(a[0]).not(), Bit::of(bb[0]), true);

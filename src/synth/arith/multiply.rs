@@ -9,6 +9,8 @@
 //!   any `p`. Each controlled row is the carry chain of [`super::add_in_place`]
 //!   with controlled effects, `3n + O(1)` Toffolis, so the whole is about
 //!   `2 * 3n^2 = 6n^2` (measured; the `p ^=` form doubles the `p +=` cost).
+//!   In the builder's measure form each row is Gidney's controlled adder
+//!   with a carry-out ([`super::chain::add`]): `2n + 1` temporary ANDs.
 //! - **Karatsuba**, from [`KARATSUBA_FROM`] bits on: three half-size
 //!   products per level, every intermediate register kept until the whole
 //!   product is copied out and the computation undone once, so `O(n^lg 3)`
@@ -80,6 +82,11 @@ fn schoolbook(b: &mut Builder, a: &[Line], bb: &[Line], held: &mut Vec<Line>) ->
     }
     let q: Vec<Bit> = bb.iter().map(|&l| Bit::of(l)).collect();
     for i in 1..w {
+        if b.measure() {
+            // Gidney's controlled adder (chain.rs): 2n + 1 temporary ANDs a row.
+            super::chain::add(b, bb, &t[i..i + w], Some(t[i + w]), Some(a[i]));
+            continue;
+        }
         b.set_ctrl(Some(a[i]));
         add_in_place(b, &t[i..i + w], &q, Some(t[i + w]));
     }
