@@ -1,11 +1,13 @@
-//! ESOP figures for BENCHMARKS.md. Run with `cargo bench --bench esop`.
+//! ESOP figures for BENCHMARKS.md. Run with `cargo bench --bench esop`;
+//! sections can be picked: `cargo bench --bench esop -- heuristic toffoli scale refusals`.
 
 mod common;
 use common::*;
 
 use oraculum::logic::TruthTable;
 use oraculum::pipeline::build_one;
-use oraculum::synth::minimize_tables;
+use oraculum::synth::{esop_counted, minimize_tables, EsopWork, SynthError};
+use oraculum::SpecBody;
 use oraculum::Tables;
 use oraculum::{parse_spec, BuildOptions, Method, SynthLimits};
 use std::time::Instant;
@@ -27,7 +29,89 @@ fn random_spec(rng: &mut Mix, n: usize, m: usize) -> String {
 }
 
 fn main() {
-    // 1. The heuristic over every 4-input function, against the exact table.
+    let args: Vec<String> = std::env::args()
+        .skip(1)
+        .filter(|a| !a.starts_with('-'))
+        .collect();
+    let wants = |s: &str| args.is_empty() || args.iter().any(|a| a == s);
+    if wants("heuristic") {
+        heuristic();
+    }
+    let mut rng = Mix(42);
+    if wants("toffoli") {
+        toffoli(&mut rng);
+    }
+    if wants("scale") {
+        scale(&mut rng);
+    }
+    if wants("refusals") {
+        refusals();
+    }
+}
+
+/// Random tables past the default gate cap, refused with exit 3: the time
+/// the command line takes to say so (reading the spec included), and in
+/// process the reading and the refusal apart, with the cubes built before it.
+fn refusals() {
+    let exe = env!("CARGO_BIN_EXE_oraculum");
+    let dir = tempfile::tempdir().unwrap();
+    println!("random tables, `oraculum synth SPEC --method esop --no-verify`, default --max-gates 2,000,000:");
+    println!(
+        "inputs outputs  spec MB  exit  command s  read s  refusal s  cubes built  gates counted"
+    );
+    let mut rng = Mix(24);
+    for (n, m) in [
+        (20usize, 8usize),
+        (20, 16),
+        (22, 8),
+        (22, 16),
+        (24, 8),
+        (24, 16),
+    ] {
+        let text = random_spec(&mut rng, n, m);
+        let path = dir.path().join(format!("r{n}x{m}.toml"));
+        std::fs::write(&path, &text).unwrap();
+        let t = Instant::now();
+        let o = std::process::Command::new(exe)
+            .args([
+                "synth",
+                path.to_str().unwrap(),
+                "--method",
+                "esop",
+                "--no-verify",
+            ])
+            .args(["-o", dir.path().join("out.qasm").to_str().unwrap()])
+            .output()
+            .unwrap();
+        let command = t.elapsed().as_secs_f64();
+        let t = Instant::now();
+        let spec = parse_spec("r", &text).unwrap();
+        let read = t.elapsed().as_secs_f64();
+        let SpecBody::Function(f) = &spec.body else {
+            unreachable!()
+        };
+        let mut work = EsopWork::default();
+        let t = Instant::now();
+        let r = esop_counted(f, &SynthLimits::default(), &mut work, &());
+        let refusal = t.elapsed().as_secs_f64();
+        let counted = match r {
+            Err(SynthError::Limit { value, .. }) => value.to_string(),
+            Err(e) => format!("error: {e}"),
+            Ok(e) => format!("not refused: {} terms", e.terms.len()),
+        };
+        println!(
+            "{n:6} {m:7} {:8.1} {:5} {command:10.2} {read:7.2} {refusal:10.2} {:12} {counted:>14}",
+            text.len() as f64 / 1e6,
+            o.status
+                .code()
+                .map_or("none".to_string(), |c| c.to_string()),
+            work.cubes,
+        );
+    }
+}
+
+/// 1. The heuristic over every 4-input function, against the exact table.
+fn heuristic() {
     let t = Instant::now();
     let exact = Tables::get().esop(4);
     let (mut heur, mut opt, mut worse) = (0usize, 0usize, 0usize);
@@ -48,9 +132,10 @@ fn main() {
         worse,
         t.elapsed().as_secs_f64()
     );
+}
 
-    // 2. Lowered Toffoli counts, esop against reed-muller, random functions.
-    let mut rng = Mix(42);
+/// 2. Lowered Toffoli counts, esop against reed-muller, random functions.
+fn toffoli(rng: &mut Mix) {
     let no_verify = BuildOptions {
         verify: None,
         ..Default::default()
@@ -60,7 +145,7 @@ fn main() {
         let count = 1000;
         for k in 0..count {
             let m = 1 + k % 4;
-            let spec = parse_spec("r", &random_spec(&mut rng, n, m)).unwrap();
+            let spec = parse_spec("r", &random_spec(rng, n, m)).unwrap();
             let a = build_one(&spec, Method::ReedMuller, &no_verify, &()).unwrap();
             let b = build_one(&spec, Method::Esop, &no_verify, &()).unwrap();
             rm += a.cost.toffoli;
@@ -75,8 +160,10 @@ fn main() {
             1000.0 * secs / count as f64
         );
     }
+}
 
-    // 3. Scale.
+/// 3. Scale.
+fn scale(rng: &mut Mix) {
     let big = BuildOptions {
         verify: None,
         limits: SynthLimits {
@@ -86,7 +173,7 @@ fn main() {
         ..Default::default()
     };
     for (n, m) in [(16usize, 1usize), (16, 16), (20, 1)] {
-        let spec = parse_spec("r", &random_spec(&mut rng, n, m)).unwrap();
+        let spec = parse_spec("r", &random_spec(rng, n, m)).unwrap();
         let t = Instant::now();
         let o = build_one(&spec, Method::Esop, &big, &()).unwrap();
         println!(

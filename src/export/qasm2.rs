@@ -29,9 +29,9 @@ pub enum WriteError {
     /// A gate name that is not an identifier, or is taken by OpenQASM 2, `qelib1.inc` or a register.
     #[error("'{0}' cannot name the gate: it must start with a lowercase letter, hold only letters, digits and '_', and not be an OpenQASM 2 word, a qelib1.inc gate or a register's name")]
     BadGateName(String),
-    /// A gate definition cannot measure: a circuit with measured uncomputes
-    /// has no gate form.
-    #[error("gate {0} is a measured uncompute, which a gate definition cannot hold; write the circuit without --as-gate or with --uncompute toffoli")]
+    /// An OpenQASM 2 gate definition cannot measure: a circuit with measured
+    /// uncomputes has no OpenQASM 2 gate form (OpenQASM 3 writes a `def`).
+    #[error("gate {0} is a measured uncompute, which an OpenQASM 2 gate definition cannot hold; write it with --format qasm3 (a subroutine), without --as-gate, or with --uncompute toffoli")]
     MeasuredInGate(usize),
 }
 

@@ -6,9 +6,13 @@
 //! ([`super::kernel`]) runs over the rows at the CPU's widest vectors, the
 //! spec's expected rows come from the compiled expressions
 //! ([`super::program`]) or the bit-sliced arithmetic references
-//! ([`super::ripple`]), and the rows are compared word by word.
+//! ([`super::ripple`]), and the rows are compared word by word. Adders,
+//! subtractors and comparators of two registers skip the expected rows:
+//! [`super::fused`] runs the reference's chain and the comparison in one
+//! pass over the circuit's rows.
 
 use super::bind::{bind, Binding};
+use super::fused::{self, Fused};
 use super::kernel::{Dispatch, GateProgram, Literal};
 use super::program::{pattern, Node, Scratch, WordProgram};
 use super::reference::{arithmetic_reference, Model, Reference};
@@ -110,7 +114,19 @@ pub(super) fn verify_words(
         }
         .map_err(|e| VerifyError::Binding(e.to_string()))?;
     }
+    let fused = match &spec.body {
+        SpecBody::Arithmetic(a) => Fused::plan(a).filter(|f| f.bits() == binding.free.len()),
+        _ => None,
+    };
+    let low = fused::low_patterns::<W>(binding.free.len());
+    let unbound: Vec<usize> = (0..circuit.width())
+        .filter(|l| !binding.free.contains(l))
+        .collect();
     let checker = Checker {
+        fused,
+        low,
+        unbound,
+        zero: [0; W],
         controlled: super::bind::outer_control(spec),
         circuit,
         width: circuit.width(),
@@ -183,6 +199,14 @@ struct Work {
 }
 
 struct Checker<'a> {
+    /// The one-pass check of an adder, subtractor or comparator, if the spec is one.
+    fused: Option<Fused>,
+    /// The pattern rows of the low state bits, the same on every block.
+    low: Vec<[u64; W]>,
+    /// The lines that are no state bit (ancillae), 0 at the start.
+    unbound: Vec<usize>,
+    /// A row of 0s.
+    zero: [u64; W],
     /// A controlled function or permutation: `ctrl` is the last free line,
     /// and the map applies where it is 1.
     controlled: bool,
@@ -352,6 +376,10 @@ impl Checker<'_> {
         work: &mut Work,
         checked: &AtomicU64,
     ) -> Option<u64> {
+        if let Some(plan) = &self.fused {
+            let bad = self.fused_block(plan, base, work);
+            return self.first_bad(base, first, end, &bad, &[!0; W], checked);
+        }
         self.inputs(base, &mut work.inputs);
         let mut rows = std::mem::take(&mut work.rows);
         rows.clear();
@@ -380,6 +408,55 @@ impl Checker<'_> {
                 *b |= v ^ x;
             }
         }
+        let failed = self.first_bad(base, first, end, &bad, &care, checked);
+        work.rows = rows;
+        failed
+    }
+
+    /// The rows after the circuit on the block at word `base`, checked in
+    /// one pass against the fused op: the OR of every wrong state's bits.
+    fn fused_block(&self, plan: &Fused, base: u64, work: &mut Work) -> [u64; W] {
+        const { assert!(W <= 64 && W.is_multiple_of(fused::C)) };
+        let rows = &mut work.rows;
+        rows.resize(self.width, [0; W]);
+        let mut sources: [&[u64; W]; 64] = [&self.zero; 64];
+        for (bit, s) in sources.iter_mut().take(self.binding.free.len()).enumerate() {
+            *s = fused::source::<W>(&self.low, bit, base);
+        }
+        let (free, unbound) = (&self.binding.free, &self.unbound);
+        fused::start::<W>(self.dispatch, &self.low, free, unbound, base, rows);
+        let mut bad = [0u64; W];
+        self.program
+            .run_block_checked::<W>(rows, &mut bad)
+            .expect("the program was built for this width");
+        let block = fused::Block {
+            plan,
+            lines: &self.binding.free,
+            ancillae: &self.binding.ancillae,
+            sources: &sources[..self.binding.free.len()],
+        };
+        fused::check::<W>(self.dispatch, &block, rows, &mut bad);
+        bad
+    }
+
+    /// The first state of the words `[first, end)` of the block at `base`
+    /// with its bit set in `bad` and in `care`; counts the states checked.
+    fn first_bad(
+        &self,
+        base: u64,
+        first: u64,
+        end: u64,
+        bad: &[u64; W],
+        care: &[u64; W],
+        checked: &AtomicU64,
+    ) -> Option<u64> {
+        // A whole block inside the range with nothing wrong: the common case, in one pass.
+        let whole = base >= first && base + W as u64 <= end && self.states >= 64 * W as u64;
+        if whole && bad.iter().zip(care).all(|(b, c)| b & c == 0) {
+            let count = care.iter().map(|c| c.count_ones() as u64).sum();
+            checked.fetch_add(count, Ordering::Relaxed);
+            return None;
+        }
         let mut count = 0u64;
         let mut failed = None;
         let valid_last = if self.states < 64 {
@@ -400,7 +477,6 @@ impl Checker<'_> {
             }
         }
         checked.fetch_add(count, Ordering::Relaxed);
-        work.rows = rows;
         failed
     }
 

@@ -16,6 +16,7 @@ mod bind;
 mod count;
 mod eval;
 mod exhaustive;
+mod fused;
 mod kernel;
 mod models;
 mod program;

@@ -109,6 +109,21 @@ impl Tally {
         self.max_controls = self.max_controls.max(k);
     }
 
+    /// Counts `count` gates of `k` controls each.
+    fn add_many(&mut self, k: usize, count: u64) {
+        if count == 0 {
+            return;
+        }
+        self.gates += count;
+        self.by_controls[k.min(3)] += count;
+        self.toffoli += count
+            * match k {
+                0 | 1 => 0,
+                k => 2 * k as u64 - 3,
+            };
+        self.max_controls = self.max_controls.max(k);
+    }
+
     fn since(&mut self, start: &Tally, end: &Tally) {
         self.gates += end.gates - start.gates;
         for i in 0..4 {
@@ -157,6 +172,44 @@ impl Builder {
         match &mut self.counting {
             Some(t) => t.add(&g),
             None => self.circuit.push(g),
+        }
+    }
+
+    /// Whether this builder only counts.
+    pub fn is_counting(&self) -> bool {
+        self.counting.is_some()
+    }
+
+    /// Counting only: adds the tally of the gates `[start, end)` once more,
+    /// for a stretch the generator would emit again identically up to line
+    /// names (the caller checks that it is counting).
+    pub fn repeat_count(&mut self, start: Mark, end: Mark) {
+        if let Some(t) = &mut self.counting {
+            t.since(&start.tally, &end.tally);
+        }
+    }
+
+    /// Scaffold gates `y[i] ^= p` for every set bit `i` of `word` (`p` a
+    /// literal or `One`); counting, the gates are tallied in bulk.
+    pub fn xor_word(&mut self, p: Bit, y: &[Line], word: &num_bigint::BigUint) {
+        if let Some(t) = &mut self.counting {
+            let ones = word.count_ones();
+            match p {
+                Bit::Zero => {}
+                Bit::One => t.add_many(0, ones),
+                Bit::Lit { neg, .. } => {
+                    t.add_many(1, ones);
+                    if neg {
+                        t.add_many(0, ones);
+                    }
+                }
+            }
+            return;
+        }
+        for (i, &l) in y.iter().enumerate() {
+            if word.bit(i as u64) {
+                self.xor_into(l, p, false);
+            }
         }
     }
 

@@ -34,7 +34,10 @@ mod multiply;
 mod power;
 mod table;
 mod weight;
+mod window;
 
+pub use multiply::KARATSUBA_FROM;
+pub use power::{power_form, PowerForm};
 pub use table::{arith_images, TABLE_MAX_LINES};
 
 pub use build::{Bit, Builder, Tally};
@@ -93,20 +96,41 @@ fn const_bit(k: &BigUint, i: usize) -> bool {
     k.bit(i as u64)
 }
 
+/// The construction of an op that has more than one, when the caller fixes
+/// it (tests, benchmarks); `None` fields leave the choice to the generator.
+#[derive(Clone, Copy, Debug, Default, PartialEq, Eq)]
+pub struct Choice {
+    /// How `power` is built (default: [`power_form`]).
+    pub power: Option<PowerForm>,
+    /// `multiply` of two registers: Karatsuba from this width on, schoolbook
+    /// below (default [`KARATSUBA_FROM`]; values below 4 count as 4).
+    pub karatsuba_from: Option<usize>,
+}
+
 /// Generates the circuit of MCT gates for an arithmetic spec.
 pub fn arithmetic(spec: &ArithSpec) -> Circuit {
+    arithmetic_with(spec, &Choice::default())
+}
+
+/// [`arithmetic`] with the constructions of `choice`.
+pub fn arithmetic_with(spec: &ArithSpec, choice: &Choice) -> Circuit {
     if spec.op == ArithOp::Lookup {
         return lookup_of(spec, false);
     }
     let (lines, r) = arith_lines(spec);
     let mut b = Builder::new(lines, None);
-    generate(&mut b, spec, &r);
+    generate(&mut b, spec, &r, choice);
     b.finish()
 }
 
 /// Counts the gates of [`arithmetic`]'s circuit as they are generated,
 /// keeping none: the tally and the lines (ancillae included, lowering's pool not).
 pub fn arithmetic_tally(spec: &ArithSpec) -> (Tally, usize) {
+    arithmetic_tally_with(spec, &Choice::default())
+}
+
+/// [`arithmetic_tally`] with the constructions of `choice`.
+pub fn arithmetic_tally_with(spec: &ArithSpec, choice: &Choice) -> (Tally, usize) {
     if spec.op == ArithOp::Lookup {
         // At most 2^20 words (the reader's limit): built, then counted.
         let c = lookup_of(spec, false);
@@ -118,11 +142,11 @@ pub fn arithmetic_tally(spec: &ArithSpec) -> (Tally, usize) {
     }
     let (lines, r) = arith_lines(spec);
     let mut b = Builder::counting(lines);
-    generate(&mut b, spec, &r);
+    generate(&mut b, spec, &r, choice);
     b.tally()
 }
 
-fn generate(b: &mut Builder, spec: &ArithSpec, r: &Registers) {
+fn generate(b: &mut Builder, spec: &ArithSpec, r: &Registers, choice: &Choice) {
     let zero = BigUint::default();
     let k = spec.constant.as_ref().unwrap_or(&zero);
     match (spec.op, &spec.modulus) {
@@ -159,7 +183,14 @@ fn generate(b: &mut Builder, spec: &ArithSpec, r: &Registers) {
         (ArithOp::Multiply, Some(n)) => multiply::multiply_mod_in_place(b, &r.x, k, n, r.ctrl),
         (ArithOp::Multiply, None) => match &spec.constant {
             Some(c) => multiply::multiply_const(b, &r.a, c, &r.p, r.ctrl),
-            None => multiply::multiply(b, &r.a, &r.b, &r.p, r.ctrl),
+            None => multiply::multiply(
+                b,
+                &r.a,
+                &r.b,
+                &r.p,
+                r.ctrl,
+                choice.karatsuba_from.unwrap_or(KARATSUBA_FROM),
+            ),
         },
         (ArithOp::Power, n) => power::power(
             b,
@@ -168,6 +199,7 @@ fn generate(b: &mut Builder, spec: &ArithSpec, r: &Registers) {
             k,
             n.as_ref().expect("power has a modulus"),
             r.ctrl,
+            choice.power.unwrap_or_else(|| power_form(spec)),
         ),
         (ArithOp::Weight, _) => weight::weight(b, &r.a, &r.y, r.ctrl),
         (ArithOp::Lookup, _) => unreachable!("lookup is built by unary iteration"),
