@@ -125,6 +125,19 @@ fn main() {
         ));
         row(&format!("multiply {n} x {n}"), &s, "", n <= 4);
     }
+    for (text, name) in [
+        (
+            "op = \"multiply\"\nwidth = 8\nmodulus = 251\nconstant = 7\n",
+            "multiply by 7 mod 251",
+        ),
+        (
+            "op = \"power\"\nwidth = 4\nmodulus = 15\nconstant = 7\nexponent_bits = 4\n",
+            "7^e mod 15, 4 exponent bits",
+        ),
+    ] {
+        let s = arith(format!("kind = \"arithmetic\"\n{text}"));
+        row(name, &s, "", true);
+    }
     for w in [3usize, 6, 8] {
         let l = 1usize << w;
         for ctrl in [false, true] {

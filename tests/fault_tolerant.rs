@@ -274,6 +274,44 @@ fn register_multiplier_uses_the_controlled_adder() {
     }
 }
 
+// Modular multiplication by a constant in measure mode: its controlled
+// constant modular adders take each controlled CNOT onto a register as a
+// temporary AND of the control into a clean ancilla, a CNOT and a measured
+// uncompute (4 T, Jones, PRA 87, 022328, 2013; Gidney 2018), the carries are
+// measured by the pipeline: proven, with measured uncomputes, fewer Toffolis
+// and fewer T than toffoli mode (no published count for this construction;
+// figures in BENCHMARKS.md). `power` keeps its structural form (its
+// windowed construction, optimized, has fewer Toffolis than this form).
+#[test]
+fn modular_multiply_is_measured() {
+    for (op, n, extra) in [
+        ("multiply", 4, "modulus = 13\nconstant = 7\n"),
+        (
+            "multiply",
+            5,
+            "modulus = 29\nconstant = 3\ncontrolled = true\n",
+        ),
+        ("multiply", 6, "modulus = 61\nconstant = 10\n"),
+    ] {
+        let s = arith(op, n, extra);
+        let o = build_one(&s, Method::Structural, &measure(Some(Route::Auto)), &()).unwrap();
+        let what = format!("{op} {n} {extra}");
+        assert!(proven(&o.verification), "{what}: {:?}", o.verification);
+        let mut plain = measure(None);
+        plain.uncompute = Uncompute::Toffoli;
+        let t = build_one(&s, Method::Structural, &plain, &()).unwrap();
+        assert!(
+            o.cost.measured > 0
+                && o.cost.toffoli < t.cost.toffoli
+                && o.cost.toffoli_equivalent < t.cost.toffoli
+                && o.cost.t_count < t.cost.t_count,
+            "{what}: {:?} against {:?}",
+            o.cost,
+            t.cost
+        );
+    }
+}
+
 fn lines(regs: &[(&str, usize, Role)]) -> Vec<LineInfo> {
     regs.iter()
         .flat_map(|&(r, n, role)| {

@@ -2,8 +2,8 @@
 //! Gidney's adder ([`super::gidney`]) for `add` and `sub` without a control
 //! in `measure` mode, and unary iteration ([`super::lookup`]) for `lookup` in
 //! both modes; the register comparator, controlled register adders,
-//! modular addition of registers and the register multiplier by the
-//! structural generators with the
+//! modular addition of registers, the register multiplier and modular
+//! multiplication by the structural generators with the
 //! measured adder and comparator of [`super::chain`]. Every other op keeps
 //! its structural circuit, whose provable uncomputes the pipeline measures.
 
@@ -58,6 +58,10 @@ pub fn arithmetic_measured(spec: &ArithSpec) -> Option<Circuit> {
         ArithOp::Multiply if spec.constant.is_none() && spec.modulus.is_none() => {
             Some(in_measure_form(spec))
         }
+        // Modular multiplication by a constant (its controlled CNOTs become
+        // temporary ANDs). `power` keeps its structural form: its windowed
+        // construction, optimized, costs fewer Toffolis than this form.
+        ArithOp::Multiply if spec.modulus.is_some() => Some(in_measure_form(spec)),
         _ => None,
     }
 }
