@@ -1,5 +1,6 @@
-//! Toffoli and T counts in both uncompute modes for the adders, lookups and
-//! demo specs, as a Markdown table for BENCHMARKS.md.
+//! Toffoli and T counts in both uncompute modes for the adders, comparators,
+//! controlled and modular adders, lookups and demo specs, as a Markdown
+//! table for BENCHMARKS.md.
 //! Run with `cargo run --release --example ft_costs`.
 
 use oraculum::pipeline::build;
@@ -53,6 +54,76 @@ fn main() {
                 n <= 16,
             );
         }
+    }
+    let arith = |text: String| parse_spec("arith", &text).unwrap();
+    for n in [8usize, 16, 32, 64] {
+        for ctrl in [false, true] {
+            let s = arith(format!(
+                "kind = \"arithmetic\"\nop = \"compare\"\nrelation = \"<\"\nwidth = {n}\ncontrolled = {ctrl}\n"
+            ));
+            let want = n + ctrl as usize;
+            row(
+                &format!(
+                    "compare a < b, {n}{}",
+                    if ctrl { ", controlled" } else { "" }
+                ),
+                &s,
+                &format!(
+                    "{want} Toffoli, {} T (Gidney 2018's chain with carry-out)",
+                    4 * want
+                ),
+                n <= 16,
+            );
+        }
+    }
+    for n in [8usize, 16, 32, 64] {
+        let s = arith(format!(
+            "kind = \"arithmetic\"\nop = \"add\"\nwidth = {n}\ncontrolled = true\n"
+        ));
+        row(
+            &format!("add {n}, controlled"),
+            &s,
+            &format!("8n + O(1) = {} + O(1) T (Gidney 2018)", 8 * n),
+            n <= 16,
+        );
+    }
+    for (op, n, m, ctrl) in [
+        ("subtract", 8usize, "", true),
+        ("add", 8, "251", false),
+        ("add", 8, "251", true),
+        ("subtract", 8, "251", false),
+        ("add", 16, "65521", false),
+        ("subtract", 16, "65521", false),
+    ] {
+        let modulus = if m.is_empty() {
+            String::new()
+        } else {
+            format!("modulus = {m}\n")
+        };
+        let s = arith(format!(
+            "kind = \"arithmetic\"\nop = \"{op}\"\nwidth = {n}\ncontrolled = {ctrl}\n{modulus}"
+        ));
+        let name = format!(
+            "{op} {n}{}{}",
+            if m.is_empty() {
+                String::new()
+            } else {
+                format!(" mod {m}")
+            },
+            if ctrl { ", controlled" } else { "" }
+        );
+        let published = if m.is_empty() {
+            format!("8n + O(1) = {} + O(1) T (Gidney 2018)", 8 * n)
+        } else {
+            String::new()
+        };
+        row(&name, &s, &published, n <= 8);
+    }
+    for n in [4usize, 8] {
+        let s = arith(format!(
+            "kind = \"arithmetic\"\nop = \"multiply\"\nwidth = {n}\n"
+        ));
+        row(&format!("multiply {n} x {n}"), &s, "", n <= 4);
     }
     for w in [3usize, 6, 8] {
         let l = 1usize << w;

@@ -78,7 +78,8 @@ const LONG_FILES: &[&str] = &[
     // One format: the OpenQASM 2 reader and writer, with the measured
     // uncompute's gadget read and written as one gate.
     "src/export/qasm2.rs",
-    // The OpenQASM 3 reader: its tokenizer, gate definitions and gadget.
+    // The OpenQASM 3 reader: its tokenizer, gate and subroutine definitions
+    // and gadget.
     "src/export/qasm3_read.rs",
     // ESOP cubes and their algebra.
     "src/logic/esop.rs",

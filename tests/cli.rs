@@ -933,10 +933,12 @@ fn measure_mode_from_the_command_line() {
     assert_eq!(o.status.code(), Some(2));
 }
 
-// `--format clifford-t` writes a file that `verify` refuses by name (never
-// "verified"), and `cost` too; the plain form of the same build is proven.
+// `--format clifford-t` writes a file that `verify` reads back and proves
+// from disk, and `cost` reports with the same T-count as the file's header;
+// the same file with one `t` turned into `tdg` is refused at its line (exit 2,
+// never "verified").
 #[test]
-fn clifford_t_files_are_refused_by_the_reader() {
+fn clifford_t_files_are_proven_from_disk() {
     let dir = workspace();
     let o = run_in(
         dir.path(),
@@ -954,16 +956,40 @@ fn clifford_t_files_are_refused_by_the_reader() {
     assert_eq!(o.status.code(), Some(0), "{:?}", text(&o));
     let written = std::fs::read_to_string(dir.path().join("ct.qasm")).unwrap();
     assert!(written.contains("\ntdg ") && !written.contains("ccx"));
-    for args in [
-        &["verify", "ct.qasm", "--spec", "specs/fuel-sum.toml"][..],
-        &["cost", "ct.qasm"][..],
-    ] {
-        let o = run_in(dir.path(), args);
-        assert_eq!(o.status.code(), Some(2), "{:?}", text(&o));
-        let (out, err) = text(&o);
-        assert!(err.contains("Clifford+T"), "{err}");
-        assert!(!out.contains("verified"), "{out}");
-    }
+    let o = run_in(
+        dir.path(),
+        &["verify", "ct.qasm", "--spec", "specs/fuel-sum.toml"],
+    );
+    let (out, err) = text(&o);
+    assert_eq!(o.status.code(), Some(0), "{out}{err}");
+    assert!(out.contains("verified"), "{out}");
+    let o = run_in(dir.path(), &["cost", "ct.qasm", "--json"]);
+    let (out, err) = text(&o);
+    assert_eq!(o.status.code(), Some(0), "{err}");
+    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    let t = v["t_count"].as_u64().unwrap();
+    assert!(written.contains(&format!("// t-count {t},")), "{t}");
+    let at = written.lines().position(|l| l.starts_with("t ")).unwrap();
+    let mutated: Vec<String> = written
+        .lines()
+        .enumerate()
+        .map(|(i, l)| {
+            if i == at {
+                l.replacen("t ", "tdg ", 1)
+            } else {
+                l.to_string()
+            }
+        })
+        .collect();
+    std::fs::write(dir.path().join("bad.qasm"), mutated.join("\n")).unwrap();
+    let o = run_in(
+        dir.path(),
+        &["verify", "bad.qasm", "--spec", "specs/fuel-sum.toml"],
+    );
+    let (out, err) = text(&o);
+    assert_eq!(o.status.code(), Some(2), "{out}{err}");
+    assert!(err.contains(&format!("bad.qasm:{}:1", at + 1)), "{err}");
+    assert!(!out.contains("verified"), "{out}");
 }
 
 // `draw --uncompute measure` marks temporary ANDs and measured uncomputes.

@@ -4,7 +4,9 @@
 //! act as the lowered circuit's classical map on basis states and on random
 //! superpositions, whatever the measurements give; T-count and T-depth read
 //! from the text agree with the cost report; Bennett circuits stay within 4 T
-//! per AND node (Meuli et al., ICCAD 2019).
+//! per AND node (Meuli et al., ICCAD 2019); and every demo spec of at most 20
+//! qubits in measure mode, as plain OpenQASM 2 and (up to 13 qubits) in
+//! Clifford+T form, moves every amplitude where the spec's own map sends it.
 
 mod common;
 
@@ -147,8 +149,7 @@ fn fresh_cregs(text: &str) -> String {
 /// basis state moved by the classical map.
 fn check(c: &Circuit, basis: usize, random: usize, rng: &mut Rng) -> usize {
     let written = write_clifford_t(c, &QasmHeader::default()).unwrap();
-    let text = fresh_cregs(&written);
-    for l in body(&text) {
+    for l in body(&written) {
         let l = l.split(") ").last().unwrap();
         let op = l.split(' ').next().unwrap();
         assert!(
@@ -156,17 +157,51 @@ fn check(c: &Circuit, basis: usize, random: usize, rng: &mut Rng) -> usize {
             "{op}"
         );
     }
+    let map = |s: u64| (c.simulate(s), false);
+    simulate_against(c, &written, &map, &Prep::default(), basis, random, 3, rng).0
+}
+
+/// How the initial states are made beyond independent random qubits: the
+/// lines left at 0 (a phase oracle's line), and for a promised domain, a
+/// line rotated only where another is 0 (`x c; cu3 c,t; x c;`), so no
+/// amplitude falls outside it.
+#[derive(Default)]
+struct Prep {
+    zero: Vec<usize>,
+    only_where_zero: Vec<(usize, usize)>,
+}
+
+/// Simulates `text` (OpenQASM 2, plain or Clifford+T, of the lowered circuit
+/// `c`) with qasmsim on `basis` random basis states and `random` random
+/// superpositions of the free lines of `c` (ancillae and `prep.zero` at 0),
+/// each `runs` times, so that every measurement's outcome is drawn afresh;
+/// every amplitude must arrive where `map` sends its basis state (our line
+/// numbering), negated when `map` says so. Returns the runs and the
+/// measurement outcomes seen as (zeros, ones).
+#[allow(clippy::too_many_arguments)]
+fn simulate_against(
+    c: &Circuit,
+    text: &str,
+    map: &dyn Fn(u64) -> (u64, bool),
+    prep_rule: &Prep,
+    basis: usize,
+    random: usize,
+    runs_each: usize,
+    rng: &mut Rng,
+) -> (usize, (usize, usize)) {
+    let text = fresh_cregs(text);
     let qubit = qubit_of(c);
     let free: Vec<usize> = (0..c.width())
-        .filter(|&i| c.lines()[i].role != Role::Ancilla)
+        .filter(|&i| c.lines()[i].role != Role::Ancilla && !prep_rule.zero.contains(&i))
         .collect();
-    let map = |i: usize| -> usize {
-        // qasmsim index -> our state -> simulate -> qasmsim index
+    let to_ours = |i: usize| -> u64 {
         let mut s = 0u64;
         for (line, &q) in qubit.iter().enumerate() {
             s |= (((i >> q) & 1) as u64) << line;
         }
-        let s = c.simulate(s);
+        s
+    };
+    let to_sim = |s: u64| -> usize {
         let mut j = 0usize;
         for (line, &q) in qubit.iter().enumerate() {
             j |= (((s >> line) & 1) as usize) << q;
@@ -177,68 +212,84 @@ fn check(c: &Circuit, basis: usize, random: usize, rng: &mut Rng) -> usize {
         .filter(|&i| c.lines()[i].role == Role::Ancilla)
         .map(|i| 1 << qubit[i])
         .sum();
-    let mut runs = 0;
+    // The declarations alone: the program that makes the initial state.
+    let last_decl = text
+        .lines()
+        .collect::<Vec<_>>()
+        .iter()
+        .rposition(|l| l.starts_with("qreg ") || l.starts_with("creg "))
+        .unwrap();
+    let decls = text
+        .lines()
+        .take(last_decl + 1)
+        .collect::<Vec<_>>()
+        .join("\n");
+    let name = |i: usize| format!("{}[{}]", c.lines()[i].register, c.lines()[i].index);
+    let (mut runs, mut zeros, mut ones) = (0, 0, 0);
     for k in 0..basis + random {
         let mut prep = String::new();
         for &f in &free {
-            let l = &c.lines()[f];
             if k < basis {
                 if rng.next() & 1 == 1 {
-                    prep.push_str(&format!("x {}[{}];\n", l.register, l.index));
+                    prep.push_str(&format!("x {};\n", name(f)));
                 }
-            } else {
-                prep.push_str(&format!(
-                    "u3({},{},{}) {}[{}];\n",
-                    rng.angle() / 2.0,
-                    rng.angle(),
-                    rng.angle(),
-                    l.register,
-                    l.index
-                ));
+                continue;
+            }
+            let u = format!("({},{},{})", rng.angle() / 2.0, rng.angle(), rng.angle());
+            match prep_rule.only_where_zero.iter().find(|p| p.1 == f) {
+                Some(&(ctl, _)) => prep.push_str(&format!(
+                    "x {c};\ncu3{u} {c},{t};\nx {c};\n",
+                    c = name(ctl),
+                    t = name(f)
+                )),
+                None => prep.push_str(&format!("u3{u} {};\n", name(f))),
             }
         }
-        let init = qasmsim::run(
-            &with_prep(
-                &text
-                    .lines()
-                    .take_while(|l| {
-                        !l.starts_with("x ")
-                            && !l.starts_with("h ")
-                            && !l.starts_with("cx ")
-                            && !l.starts_with("if")
-                            && !l.starts_with("t ")
-                            && !l.starts_with("measure")
-                    })
-                    .collect::<Vec<_>>()
-                    .join("\n"),
-                &prep,
-            ),
-            None,
-        )
-        .unwrap();
+        // A basis state outside the domain is left out.
+        let set = |l: usize| prep.contains(&format!("x {};\n", name(l)));
+        if k < basis
+            && prep_rule
+                .only_where_zero
+                .iter()
+                .any(|&(ctl, t)| set(ctl) && set(t))
+        {
+            continue;
+        }
+        let init = qasmsim::run(&with_prep(&decls, &prep), None).unwrap();
         let init = init.statevector().as_complex_bases().to_vec();
-        for _ in 0..3 {
+        for _ in 0..runs_each {
             let run = qasmsim::run(&with_prep(&text, &prep), None).unwrap();
+            for (reg, v) in run.memory() {
+                if reg.starts_with('m') {
+                    if *v == 0 {
+                        zeros += 1
+                    } else {
+                        ones += 1
+                    }
+                }
+            }
             let out = run.statevector().as_complex_bases();
             // States with an ancilla at 1 have amplitude 0 in `init`; the
             // others move by the map, and since both states are normalized
             // nothing else is left in `out`.
             for (i, a) in init.iter().enumerate() {
-                if anc_mask & i != 0 {
+                if anc_mask & i != 0 || a.re.abs() + a.im.abs() < 1e-12 {
                     continue;
                 }
-                let b = out[map(i)];
+                let (to, neg) = map(to_ours(i));
+                let j = to_sim(to);
+                let sign = if neg { -1.0 } else { 1.0 };
+                let b = out[j];
                 assert!(
-                    (a.re - b.re).abs() < 1e-9 && (a.im - b.im).abs() < 1e-9,
-                    "amplitude of {i} moved to {}: {a:?} became {b:?}; nonzero now: {:?}\n{prep}\n{text}",
-                    map(i),
+                    (sign * a.re - b.re).abs() < 1e-9 && (sign * a.im - b.im).abs() < 1e-9,
+                    "amplitude of {i} moved to {j} (sign {sign}): {a:?} became {b:?}; nonzero now: {:?}\n{prep}\n{text}",
                     out.iter().enumerate().filter(|(_, z)| z.re.abs() + z.im.abs() > 1e-6).map(|(j, z)| (j, z.re, z.im)).collect::<Vec<_>>()
                 );
             }
             runs += 1;
         }
     }
-    runs
+    (runs, (zeros, ones))
 }
 
 fn lines(n: usize, anc: usize) -> Vec<LineInfo> {
@@ -312,8 +363,9 @@ fn measured(s: &oraculum::Spec, m: Method) -> (Circuit, Cost) {
     (o.lowered, o.cost)
 }
 
-// Small whole circuits in measure mode: Gidney adders, a controlled lookup,
-// majority and greenhouse by Bennett.
+// Small whole circuits in measure mode: Gidney adders (plain, with a
+// carry-out, controlled), comparators on the same carry chain, a controlled
+// lookup, majority and greenhouse by Bennett.
 #[test]
 fn small_circuits_match_their_map_in_clifford_t_form() {
     common::tables();
@@ -321,6 +373,9 @@ fn small_circuits_match_their_map_in_clifford_t_form() {
     let specs = [
         ("kind = \"arithmetic\"\nop = \"add\"\nwidth = 3\n", Method::Structural),
         ("kind = \"arithmetic\"\nop = \"add\"\nwidth = 3\ncarry_out = true\n", Method::Structural),
+        ("kind = \"arithmetic\"\nop = \"add\"\nwidth = 3\ncontrolled = true\n", Method::Structural),
+        ("kind = \"arithmetic\"\nop = \"compare\"\nwidth = 3\nrelation = \"<\"\n", Method::Structural),
+        ("kind = \"arithmetic\"\nop = \"compare\"\nwidth = 2\nrelation = \">=\"\ncontrolled = true\n", Method::Structural),
         ("kind = \"arithmetic\"\nop = \"lookup\"\nwidth = 2\ndata_width = 2\ncontrolled = true\ndata = [1, 2, 3, 1]\n", Method::Structural),
         ("kind = \"function\"\ninputs = [\"a\", \"b\", \"c\"]\noutputs = [\"most\"]\n[table]\nmost = \"0xe8\"\n", Method::Xag),
         ("kind = \"function\"\ninputs = [\"a\", \"b\", \"c\", \"d\"]\noutputs = [\"y\"]\n[expr]\ny = \"a & b & c & !d\"\n", Method::Esop),
@@ -366,4 +421,174 @@ fn bennett_in_clifford_t_form_has_at_most_4_t_per_and_node() {
             path.display()
         );
     }
+}
+
+/// A demo spec's map, written here from the spec file's own words (not from
+/// anything oraculum computes): the registers' values after, and whether the
+/// amplitude is negated (phase oracles), from the values before.
+type Regs = std::collections::HashMap<String, u64>;
+type Map = Box<dyn Fn(&Regs) -> (Regs, bool)>;
+
+fn demo_map(stem: &str) -> Option<Map> {
+    fn bit(v: u64, i: u32) -> bool {
+        (v >> i) & 1 == 1
+    }
+    fn xor_y(r: &Regs, f: u64) -> (Regs, bool) {
+        let mut o = r.clone();
+        *o.get_mut("y").unwrap() ^= f;
+        (o, false)
+    }
+    fn image(r: &Regs, images: &'static [u64]) -> (Regs, bool) {
+        let mut o = r.clone();
+        o.insert("x".into(), images[r["x"] as usize]);
+        (o, false)
+    }
+    Some(match stem {
+        // weight, width 6: y ^= popcount(a).
+        "crew-count" => Box::new(|r| xor_y(r, r["a"].count_ones() as u64)),
+        // compare a >= 4, width 3, phase form.
+        "crew-quorum" => Box::new(|r| (r.clone(), r["a"] >= 4)),
+        "dice-shuffle" => Box::new(|r| image(r, &[5, 2, 7, 0, 6, 1, 4, 3])),
+        // compare a < 21, width 6, controlled.
+        "frost-alarm" => Box::new(|r| xor_y(r, (r["ctrl"] == 1 && r["a"] < 21) as u64)),
+        "glyph-rom" => Box::new(|r| {
+            let data = [
+                0b01110, 0b10001, 0b11111, 0b10101, 0b00100, 0b01010, 0b10001, 0,
+            ];
+            xor_y(r, data[r["a"] as usize])
+        }),
+        // vent = 0x3e, fan = hot & !night | humid ^ hot (x0 hot, x1 humid, x2 night).
+        "greenhouse" => Box::new(|r| {
+            let x = r["x"];
+            let (hot, humid, night) = (bit(x, 0), bit(x, 1), bit(x, 2));
+            let vent = bit(0x3e, x as u32);
+            let fan = (hot && !night) | (humid ^ hot);
+            xor_y(r, vent as u64 | (fan as u64) << 1)
+        }),
+        "lamp-cycle" => {
+            Box::new(|r| image(r, &[3, 8, 14, 1, 0, 11, 5, 12, 7, 2, 9, 6, 15, 10, 4, 13]))
+        }
+        "seating" => Box::new(|r| {
+            let x = r["x"];
+            let [ada, bo, cy, di, ed, fay] = [0, 1, 2, 3, 4, 5].map(|i| bit(x, i));
+            let pair = !(ada ^ bo);
+            let apart = !(cy && di);
+            let valid = pair && apart && ed && (fay ^ bo ^ cy);
+            xor_y(r, valid as u64 | (pair as u64) << 1 | (apart as u64) << 2)
+        }),
+        "shift-rota" => Box::new(|r| {
+            let x = r["x"];
+            let [da, db, na, nb, nc, nd, dap, dbp] = [0, 1, 2, 3, 4, 5, 6, 7].map(|i| bit(x, i));
+            let ok = (da || db) && (na ^ nb) && (nc ^ nd) && !(da && dap) && !(db && dbp);
+            xor_y(r, ok as u64)
+        }),
+        // add constant 1 modulo 12, on the domain a < 12.
+        "ticket-counter" => Box::new(|r| {
+            let mut o = r.clone();
+            o.insert("a".into(), (r["a"] + 1) % 12);
+            (o, false)
+        }),
+        "tide-gate" => Box::new(|r| xor_y(r, bit(0xff08, r["x"] as u32) as u64)),
+        // a < b on two 2-bit numbers (x0 a0, x1 a1, x2 b0, x3 b1), phase form.
+        "vault-phase" => Box::new(|r| {
+            let x = r["x"];
+            (r.clone(), (x & 3) < (x >> 2))
+        }),
+        _ => return None,
+    })
+}
+
+/// The registers' values of a state in `c`'s line numbering, and back.
+fn registers_of(c: &Circuit, s: u64) -> Regs {
+    let mut r = Regs::new();
+    for (i, l) in c.lines().iter().enumerate() {
+        *r.entry(l.register.clone()).or_insert(0) |= ((s >> i) & 1) << l.index;
+    }
+    r
+}
+
+fn state_of(c: &Circuit, r: &Regs) -> u64 {
+    c.lines()
+        .iter()
+        .enumerate()
+        .map(|(i, l)| ((r[&l.register] >> l.index) & 1) << i)
+        .sum()
+}
+
+// Every demo spec of at most 20 qubits, built in measure mode (proven by the
+// verifier), written as plain OpenQASM 2 and, up to 13 qubits, in Clifford+T
+// form, simulated by qasmsim on random basis states and random
+// superpositions of its free registers, each run three times with the
+// measurements drawn afresh: every amplitude lands where the spec's map (as
+// written above from the spec files) sends it, whatever the outcomes.
+#[test]
+fn small_demo_specs_in_measure_mode_match_the_spec_map_in_simulation() {
+    common::tables();
+    let mut rng = Rng(0x6a09e667f3bcc908);
+    let (mut files, mut measured, mut zeros, mut ones) = (0, 0, 0, 0);
+    let mut covered = Vec::new();
+    for entry in std::fs::read_dir(common::repo().join("specs")).unwrap() {
+        let path = entry.unwrap().path();
+        let stem = path.file_stem().unwrap().to_string_lossy().into_owned();
+        let s = spec(&std::fs::read_to_string(&path).unwrap());
+        let o = oraculum::pipeline::build(
+            &s,
+            &BuildOptions {
+                uncompute: Uncompute::Measure,
+                verify: Some(Default::default()),
+                ..BuildOptions::default()
+            },
+        )
+        .unwrap();
+        assert!(o.verification.is_proven(), "{stem}");
+        let c = &o.lowered;
+        if c.width() > 20 {
+            continue;
+        }
+        let f = demo_map(&stem).unwrap_or_else(|| panic!("{stem}: write its map in demo_map"));
+        let map = |st: u64| {
+            let (r, neg) = f(&registers_of(c, st));
+            (state_of(c, &r), neg)
+        };
+        let mut prep = Prep::default();
+        if let Some(p) = c.phase() {
+            prep.zero.push(p.index());
+        }
+        if stem == "ticket-counter" {
+            // a < 12: a[3] set only where a[2] is 0.
+            let line = |i: u32| {
+                c.lines()
+                    .iter()
+                    .position(|l| l.register == "a" && l.index == i)
+                    .unwrap()
+            };
+            prep.only_where_zero.push((line(2), line(3)));
+        }
+        let plain = oraculum::write_qasm(c, &QasmHeader::default()).unwrap();
+        let mut texts = vec![plain];
+        if c.width() <= 13 {
+            texts.push(write_clifford_t(c, &QasmHeader::default()).unwrap());
+        }
+        // Fewer states on the widest circuits keep the test within seconds.
+        let (basis, random) = if c.width() <= 13 { (4, 4) } else { (2, 2) };
+        for text in &texts {
+            let (runs, (z, one)) =
+                simulate_against(c, text, &map, &prep, basis, random, 3, &mut rng);
+            assert!(runs > 0, "{stem}");
+            zeros += z;
+            ones += one;
+            files += 1;
+        }
+        measured += c.measured_count();
+        covered.push(stem);
+    }
+    covered.sort();
+    assert!(covered.len() >= 12, "{covered:?}");
+    assert!(
+        files >= 20 && measured >= 20,
+        "{files} files, {measured} measured"
+    );
+    // Both outcomes of the measured uncomputes were drawn, many times over (each
+    // is a fair coin: X-basis measurement of an ancilla in a basis state).
+    assert!(zeros > 20 && ones > 20, "{zeros} zeros, {ones} ones");
 }

@@ -1,9 +1,11 @@
-//! Hard input: random and mutated specs, expressions and OpenQASM files go
-//! through every reader (and, when they parse, the whole pipeline under small
-//! limits) without a panic; the binary answers bad files with exit 2.
+//! Hard input: random and mutated specs, expressions and OpenQASM files
+//! (plain and Clifford+T) go through every reader (and, when they parse, the
+//! whole pipeline under small limits) without a panic; the binary answers bad
+//! files with exit 2.
 
 mod common;
 
+use oraculum::export::{read_circuit_with, ReadLimits};
 use oraculum::logic::parse_expr;
 use oraculum::pipeline::build_one;
 use oraculum::{parse_spec, read_qasm, verify, BuildOptions, Method, SynthLimits, VerifyOptions};
@@ -125,6 +127,33 @@ proptest! {
         if let Ok(c) = read_qasm("fuzz.qasm", &text) {
             let _ = verify(&c, &spec, &small().verify.unwrap());
         }
+    }
+
+    // The Clifford+T reader on a measure-mode file with a few edits: no
+    // panic, every refusal placed inside the file, and what it reads goes
+    // through the verifier.
+    #[test]
+    fn mutated_clifford_t_never_panics(e in edits()) {
+        let spec = parse_spec("g.toml", &demo_texts().into_iter().find(|t| t.contains("greenhouse")).unwrap()).unwrap();
+        let opts = BuildOptions { uncompute: oraculum::Uncompute::Measure, ..BuildOptions::default() };
+        let out = build_one(&spec, Method::Bennett, &opts, &()).unwrap();
+        let text = apply(&out.clifford_t().unwrap(), &e);
+        match read_circuit_with("fuzz.qasm", &text, &ReadLimits::default()) {
+            Ok(c) => {
+                let _ = verify(&c, &spec, &small().verify.unwrap());
+            }
+            Err(err) => {
+                if let Some(l) = err.located() {
+                    prop_assert!(l.location.line >= 1 && l.location.line <= text.lines().count().max(1) + 1);
+                }
+            }
+        }
+    }
+
+    #[test]
+    fn random_text_in_clifford_t_form_never_panics(text in "\\PC{0,200}") {
+        let marked = format!("OPENQASM 2.0;\n// format: clifford+t\nqreg q[3];\ncreg m[1];\n{text}");
+        let _ = read_circuit_with("fuzz.qasm", &marked, &ReadLimits::default());
     }
 }
 

@@ -472,3 +472,177 @@ fn the_readme_grover_program_parses_and_finds_the_vault() {
     assert_eq!(j["grover_iterations"], 1);
     assert!((j["success_probability"].as_f64().unwrap() - found).abs() < 1e-9);
 }
+
+/// The gate form of a circuit with measured uncomputes is a subroutine
+/// (OpenQASM 3, Cross et al. 2022, section on subroutines: a `gate` body is
+/// unitary, a `def` may measure): every demo spec built with `--uncompute
+/// measure` whose circuit measures is written as `def oracle(qubit ...)`
+/// with a local bit, read back as the same gates, lines and phase line as
+/// its plain OpenQASM 2 twin, proven against its spec, and parsed by the
+/// reference parser; the command line writes and verifies the same, and
+/// the OpenQASM 2 gate form is refused with the way out named.
+#[test]
+fn a_gate_form_with_measured_uncomputes_is_a_subroutine() {
+    common::tables();
+    let dir = workspace();
+    let mut paths: Vec<_> = std::fs::read_dir(dir.path().join("specs"))
+        .unwrap()
+        .map(|e| e.unwrap().path())
+        .collect();
+    paths.sort();
+    let mut files = Vec::new();
+    for p in paths {
+        let stem = p.file_stem().unwrap().to_string_lossy().into_owned();
+        let spec = oraculum::parse_spec(&stem, &std::fs::read_to_string(&p).unwrap()).unwrap();
+        let opts = oraculum::BuildOptions {
+            verify: Some(VerifyOptions::default()),
+            uncompute: oraculum::Uncompute::Measure,
+            ..Default::default()
+        };
+        let mut out = oraculum::pipeline::build(&spec, &opts).unwrap();
+        out.rename_registers(&spec.registers);
+        if out.lowered.measured_count() == 0 {
+            continue;
+        }
+        let gate = Qasm3Options {
+            gate: Some("oracle".into()),
+            keep_mct: false,
+        };
+        let text3 = out.qasm3(&gate).unwrap();
+        assert!(text3.contains("\ndef oracle(qubit "), "{stem}:\n{text3}");
+        assert!(text3.contains("{\n  bit m;\n"), "{stem}:\n{text3}");
+        assert!(!text3.contains("\ngate "), "{stem}");
+        let c = read3(&stem, &text3);
+        let twin = read_qasm("2", &out.qasm().unwrap()).unwrap();
+        assert_eq!(c.lines(), twin.lines(), "{stem}");
+        assert_eq!(c.gates(), twin.gates(), "{stem}");
+        assert_eq!(c.phase(), twin.phase(), "{stem}");
+        let back = c.with_registers_renamed(&spec.registers_back());
+        let v = verify(&back, &spec, &VerifyOptions::default()).unwrap();
+        assert!(matches!(v, Verdict::Proven { .. }), "{stem}: {v:?}");
+        let f = dir.path().join(format!("{stem}.def.qasm3"));
+        std::fs::write(&f, &text3).unwrap();
+        files.push(f);
+    }
+    assert!(files.len() >= 8, "{} demo specs measure", files.len());
+    let o = run_in(
+        dir.path(),
+        &[
+            "synth",
+            "specs/vault-phase.toml",
+            "--uncompute",
+            "measure",
+            "--format",
+            "qasm3",
+            "--as-gate",
+            "vault_oracle",
+            "-o",
+            "v.qasm",
+        ],
+    );
+    assert_eq!(o.status.code(), Some(0), "{:?}", text(&o));
+    let o = run_in(
+        dir.path(),
+        &["verify", "v.qasm", "--spec", "specs/vault-phase.toml"],
+    );
+    assert_eq!(o.status.code(), Some(0), "{:?}", text(&o));
+    files.push(dir.path().join("v.qasm"));
+    let o = run_in(
+        dir.path(),
+        &[
+            "synth",
+            "specs/vault-phase.toml",
+            "--uncompute",
+            "measure",
+            "--as-gate",
+            "vault_oracle",
+            "-o",
+            "v2.qasm",
+        ],
+    );
+    assert_eq!(o.status.code(), Some(2), "{:?}", text(&o));
+    assert!(text(&o).1.contains("--format qasm3"), "{:?}", text(&o));
+    assert!(!dir.path().join("v2.qasm").exists());
+    reference_parse(&files);
+}
+
+/// Subroutines are read with their own checks, at their place: operands
+/// are the arguments, `h` only starts a gadget, a subroutine is called
+/// (not applied as a gate) with as many distinct qubits as it takes, and
+/// nested calls are counted against the gate budget before expansion.
+#[test]
+fn bad_subroutines_are_refused_at_their_place() {
+    let head = "OPENQASM 3.0;\ninclude \"stdgates.inc\";\nqubit[3] q;\n";
+    let ok = format!(
+        "{head}def f(qubit a, qubit b, qubit t) {{\n  bit m;\n  ccx a, b, t;\n  h t;\n  m = measure t;\n  if (m) {{ x a; cz a, b; x a; x t; }}\n}}\nx q[0];\nf(q[1], q[0], q[2]);\n"
+    );
+    let c = read3("ok", &ok);
+    assert_eq!(c.gates().len(), 3, "{ok}");
+    assert_eq!(
+        c.gates()[2],
+        Gate::measured(Control::neg(1), Control::pos(0), Line(2)).unwrap()
+    );
+    let cases = [
+        ("def f(qubit a) { x q[0]; }\n", 4, 20, "not an argument"),
+        ("def f(qubit a) { x a[0]; }\n", 4, 20, "without an index"),
+        ("def f(qubit[2] a) { x a; }\n", 4, 7, "one qubit"),
+        ("def f(qubit a) { h a; }\n", 4, 18, "measured uncompute"),
+        ("def f(qubit a) { qubit b; }\n", 4, 18, "not read inside"),
+        (
+            "def f(qubit a, qubit b) { cx a, b; }\nf(q[0]);\n",
+            5,
+            1,
+            "takes 2",
+        ),
+        (
+            "def f(qubit a, qubit b) { cx a, b; }\nf(q[0], q[0]);\n",
+            5,
+            9,
+            "twice",
+        ),
+        (
+            "def f(qubit a, qubit b) { cx a, b; }\nf q[0], q[1];\n",
+            5,
+            1,
+            "call it",
+        ),
+        (
+            "def f(qubit a) { x a; }\ndef f(qubit a) { x a; }\n",
+            5,
+            5,
+            "already",
+        ),
+    ];
+    for (body, line, col, what) in cases {
+        let t = format!("{head}{body}");
+        let e = read_qasm3_with("b.qasm", &t, &ReadLimits::default()).unwrap_err();
+        let l = e.located().unwrap_or_else(|| panic!("{body}: {e}"));
+        assert_eq!(
+            (l.location.line, l.location.column),
+            (line, col),
+            "{body}: {e}"
+        );
+        assert!(e.to_string().contains(what), "{body}: {e}");
+    }
+    // 2^20 gates from twenty doubling subroutines: refused before anything
+    // is expanded, at the first body over the budget (d10, 1,024 gates).
+    let mut t = String::from(head);
+    t.push_str("def d0(qubit a, qubit b) { cx a, b; }\n");
+    for k in 1..=20 {
+        t.push_str(&format!(
+            "def d{k}(qubit a, qubit b) {{ d{}(a, b); d{}(a, b); }}\n",
+            k - 1,
+            k - 1
+        ));
+    }
+    t.push_str("d20(q[0], q[1]);\n");
+    let limits = ReadLimits {
+        max_gates: 1000,
+        ..ReadLimits::default()
+    };
+    let e = read_qasm3_with("big.qasm", &t, &limits).unwrap_err();
+    assert!(
+        matches!(e, oraculum::export::ReadError::Limit { value: 1_024, .. }),
+        "{e}"
+    );
+}

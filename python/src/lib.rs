@@ -346,16 +346,20 @@ fn refuted(py: Python<'_>, what: &str, cx: &Counterexample) -> PyErr {
 #[pyclass(module = "oraculum", name = "Oracle", frozen)]
 struct Oracle {
     outcome: Outcome,
-    qasm: String,
+    /// The OpenQASM 2 text, or why there is none (a gate form with measured
+    /// uncomputes has only the OpenQASM 3 subroutine form).
+    qasm: Result<String, String>,
     as_gate: Option<String>,
 }
 
 #[pymethods]
 impl Oracle {
     /// The circuit of NOT, CNOT and Toffoli gates as OpenQASM 2 text (the
-    /// text `oraculum synth` writes).
-    fn qasm(&self) -> String {
-        self.qasm.clone()
+    /// text `oraculum synth` writes); a `ValueError` for a gate form with
+    /// measured uncomputes, which OpenQASM 2 cannot hold (`qasm3()` writes
+    /// it as a subroutine).
+    fn qasm(&self) -> PyResult<String> {
+        self.qasm.clone().map_err(PyValueError::new_err)
     }
 
     /// The circuit as OpenQASM 3 text (`oraculum synth --format qasm3`, in
@@ -534,7 +538,7 @@ fn synthesize(
         Some(name) => outcome.qasm_gate(name),
         None => outcome.qasm(),
     }
-    .map_err(|e| PyValueError::new_err(format!("cannot write OpenQASM 2: {e}")))?;
+    .map_err(|e| format!("cannot write OpenQASM 2: {e}"));
     Ok(Oracle {
         outcome,
         qasm,

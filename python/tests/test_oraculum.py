@@ -424,6 +424,19 @@ def test_uncompute_measure_keyword():
         oraculum.synthesize(add, uncompute="both")
 
 
+def test_gate_form_with_measured_uncomputes_is_an_openqasm3_subroutine():
+    # OpenQASM 3 (Cross et al., ACM TQC 2022): a gate body is unitary, a
+    # subroutine may measure; OpenQASM 2 has no subroutines.
+    add = {"kind": "arithmetic", "op": "add", "width": 4}
+    o = oraculum.synthesize(add, uncompute="measure", as_gate="adder")
+    assert o.verified
+    text = o.qasm3()
+    assert "def adder(qubit " in text and "bit m;" in text
+    assert oraculum.verify(text, add)["verdict"] == "proven"
+    with pytest.raises(ValueError, match="qasm3"):
+        o.qasm()
+
+
 def test_qasm3_is_the_cli_file_and_verifies(tmp_path):
     # .qasm3() is the text of `synth --format qasm3` (plain, gate form and
     # --keep-mct), and verify() proves OpenQASM 3 text as it proves OpenQASM 2.

@@ -179,6 +179,19 @@ impl Gate {
         }
     }
 
+    /// The inverse gate: a flip is its own inverse; a measured uncompute and
+    /// a temporary AND are each other's.
+    pub fn inverse(&self) -> Gate {
+        Gate {
+            kind: match self.kind {
+                Kind::Flip => Kind::Flip,
+                Kind::Measured => Kind::And,
+                Kind::And => Kind::Measured,
+            },
+            ..self.clone()
+        }
+    }
+
     /// A NOT gate.
     pub fn not(target: u32) -> Self {
         Gate {
@@ -453,11 +466,7 @@ impl Circuit {
         let mut c = self.clone();
         c.gates.reverse();
         for g in c.gates.iter_mut() {
-            g.kind = match g.kind {
-                Kind::Flip => Kind::Flip,
-                Kind::Measured => Kind::And,
-                Kind::And => Kind::Measured,
-            };
+            *g = g.inverse();
         }
         c
     }

@@ -202,8 +202,12 @@ pub enum Command {
         /// The shell.
         shell: clap_complete::Shell,
     },
-    /// Print the manual page (roff), for `man -l -` or a man folder.
-    Man,
+    /// Print the manual page (roff), for `man -l -`, or with --dir write one page per subcommand into a folder.
+    Man {
+        /// Write `oraculum.1` and one `oraculum-COMMAND.1` per subcommand into this folder (made if missing), instead of printing the main page.
+        #[arg(long, value_name = "DIR")]
+        dir: Option<PathBuf>,
+    },
 }
 
 /// How `synth` shapes the circuit it writes.

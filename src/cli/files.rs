@@ -170,12 +170,6 @@ pub fn load_circuit(path: &Path, max_gates: usize) -> Result<Circuit, Failure> {
 
 /// Parses OpenQASM 2 or 3 text read from `path`.
 pub fn parse_circuit(path: &Path, text: &str, max_gates: usize) -> Result<Circuit, Failure> {
-    if oraculum::export::is_clifford_t(text) {
-        return Err(Failure::bad(format!(
-            "{}: this file is in Clifford+T form (synth --format clifford-t), which the reader does not take, so it cannot be verified; write the circuit with --format qasm (the default) to verify it",
-            path.display()
-        )));
-    }
     let limits = ReadLimits {
         max_gates,
         ..ReadLimits::default()

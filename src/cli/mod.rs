@@ -234,6 +234,6 @@ fn dispatch(cmd: Command) -> Result<i32, Failure> {
             max_gates,
         ),
         Command::Completions { shell } => commands::info::completions(shell),
-        Command::Man => commands::info::man(),
+        Command::Man { dir } => commands::info::man(dir.as_deref()),
     }
 }

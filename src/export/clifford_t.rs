@@ -15,8 +15,9 @@
 //!   undoes the phase `i^(-ab)` left on the result): 4 T, T-depth 2.
 //! - A measured uncompute is the gadget [`super::write_qasm`] writes (no T).
 //!
-//! The verifier does not read this form (`verify` refuses it); its meaning
-//! is checked by a state-vector simulator in the tests.
+//! `export::read_clifford_t_with` reads exactly these sequences back (so
+//! `verify` proves such a file from disk); their meaning is checked by a
+//! state-vector simulator in the tests.
 
 use super::qasm2::{write_qasm, QasmHeader, WriteError};
 use crate::circuit::{Circuit, Line};
@@ -43,7 +44,7 @@ pub fn write_clifford_t(c: &Circuit, header: &QasmHeader) -> Result<String, Writ
         if line.starts_with("include ") {
             s.push_str(CLIFFORD_T_MARK);
             s.push_str(
-                " (h, s, sdg, t, tdg, x, cx, cz, measure, if; verify reads the plain form only)\n",
+                " (h, s, t, tdg, x, cx, cz, measure, if; read back by verify, cost and draw)\n",
             );
             if let Some(cost) = &header.cost {
                 let _ = writeln!(

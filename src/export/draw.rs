@@ -1,10 +1,14 @@
 //! Circuit drawings: Unicode text for the terminal, SVG for papers and slides.
 //!
-//! One column per gate. Lines are labelled with register, index, spec name and
-//! role; ancillae are drawn below a labelled gap with a dotted wire. A filled
-//! dot is a control on 1, a hollow one a control on 0, a circled plus the
-//! target, and a vertical bar joins them. A temporary AND's target is `∧`, a
-//! measured uncompute's `M`.
+//! Lines are labelled with register, index, spec name and role; ancillae are
+//! drawn below a labelled gap with a dotted wire. A filled dot is a control on
+//! 1, a hollow one a control on 0, a circled plus the target, and a vertical
+//! bar joins them. A temporary AND's target is `∧`, a measured uncompute's
+//! `M`. A phase oracle's wrapper is drawn on its line: `X`, `H` before the
+//! gates and `H`, `X` after. The terminal drawing has one column per gate;
+//! the SVG puts gates whose spans (the rows from their highest to their
+//! lowest line) are disjoint in one column, as early as the gates before
+//! them allow, and ends with a legend of its symbols.
 
 use crate::circuit::{Circuit, Gate, Role};
 use std::fmt::Write as _;
@@ -42,6 +46,27 @@ fn order(c: &Circuit) -> Vec<usize> {
     v
 }
 
+/// One column of a drawing: a gate, or a step of the phase wrapper (`X` or
+/// `H` on the phase line).
+enum Column<'a> {
+    Gate(&'a Gate),
+    Wrap(char),
+}
+
+/// The columns in order: the wrapper's `X`, `H`, the gates, `H`, `X`.
+fn columns(c: &Circuit) -> Vec<Column<'_>> {
+    let wrap = c.phase().is_some();
+    let mut v = Vec::with_capacity(c.gates().len() + 4);
+    if wrap {
+        v.extend([Column::Wrap('X'), Column::Wrap('H')]);
+    }
+    v.extend(c.gates().iter().map(Column::Gate));
+    if wrap {
+        v.extend([Column::Wrap('H'), Column::Wrap('X')]);
+    }
+    v
+}
+
 fn span(g: &Gate, row_of: &[usize]) -> (usize, usize) {
     let rows = g
         .controls()
@@ -68,7 +93,8 @@ pub fn draw_text(c: &Circuit, width: usize) -> String {
     let labels: Vec<String> = rows.iter().map(|&l| label(c, l)).collect();
     let lw = labels.iter().map(|s| s.chars().count()).max().unwrap_or(0) + 1;
     let per = ((width.saturating_sub(lw + 2)) / 3).max(1);
-    let gates = c.gates();
+    let gates = columns(c);
+    let phase_row = c.phase().map(|p| row_of[p.index()]);
     let mut out = String::new();
     if gates.is_empty() {
         for (r, lab) in labels.iter().enumerate() {
@@ -89,7 +115,20 @@ pub fn draw_text(c: &Circuit, width: usize) -> String {
         let from = s * per;
         let to = ((s + 1) * per).min(gates.len());
         if sections > 1 {
-            let _ = writeln!(out, "gates {}-{} of {}", from + 1, to, gates.len());
+            // Numbered by gate: the wrapper's columns are not gates.
+            let before = |k: usize| {
+                gates[..k]
+                    .iter()
+                    .filter(|c| matches!(c, Column::Gate(_)))
+                    .count()
+            };
+            let _ = writeln!(
+                out,
+                "gates {}-{} of {}",
+                before(from) + 1,
+                before(to),
+                c.gates().len()
+            );
         }
         for (r, lab) in labels.iter().enumerate() {
             if Some(r) == first_ancilla && r == 0 {
@@ -104,7 +143,17 @@ pub fn draw_text(c: &Circuit, width: usize) -> String {
                 ""
             };
             let mut gap = format!("{gap_label:<lw$} ");
-            for g in &gates[from..to] {
+            for col in &gates[from..to] {
+                let g = match col {
+                    Column::Gate(g) => *g,
+                    Column::Wrap(w) => {
+                        line.push(wire);
+                        line.push(if Some(r) == phase_row { *w } else { wire });
+                        line.push(wire);
+                        gap.push_str("   ");
+                        continue;
+                    }
+                };
                 let (lo, hi) = span(g, &row_of);
                 let l = rows[r];
                 let mark = if g.target().index() == l {
@@ -170,8 +219,11 @@ pub fn draw_svg(c: &Circuit, title: &str) -> String {
     let labels: Vec<String> = rows.iter().map(|&l| label(c, l)).collect();
     let left = 24.0 + 7.2 * labels.iter().map(|s| s.chars().count()).max().unwrap_or(4) as f64;
     let gap = 28.0;
-    let width = left + gap * (c.gates().len() as f64 + 1.0) + 20.0;
-    let height = y + 10.0;
+    let (column, used) = layers(c, &rows);
+    let legend = legend(c);
+    let width = (left + gap * (used as f64 + 1.0) + 20.0).max(legend.1);
+    let legend_y = y + 14.0;
+    let height = legend_y + 24.0;
     let mut s = String::new();
     let _ = writeln!(
         s,
@@ -222,8 +274,22 @@ pub fn draw_svg(c: &Circuit, title: &str) -> String {
             colour(info.role)
         );
     }
+    let wrap = |s: &mut String, col: usize, word: char| {
+        let Some(p) = c.phase() else { return };
+        let (x, yy) = (left + gap * (col as f64 + 1.0), y_of[p.index()]);
+        let _ = writeln!(
+            s,
+            "  <g class=\"wrap\"><rect x=\"{:.0}\" y=\"{:.0}\" width=\"18\" height=\"18\" fill=\"#fdfcf8\" stroke=\"#222\"/><text x=\"{x:.0}\" y=\"{:.0}\" text-anchor=\"middle\">{word}</text></g>",
+            x - 9.0,
+            yy - 9.0,
+            yy + 4.0
+        );
+    };
+    let lead = if c.phase().is_some() { 2 } else { 0 };
+    wrap(&mut s, 0, 'X');
+    wrap(&mut s, 1, 'H');
     for (k, g) in c.gates().iter().enumerate() {
-        let x = left + gap * (k as f64 + 1.0);
+        let x = left + gap * ((lead + column[k]) as f64 + 1.0);
         let ys: Vec<f64> = g
             .controls()
             .iter()
@@ -275,6 +341,70 @@ pub fn draw_svg(c: &Circuit, title: &str) -> String {
         }
         let _ = writeln!(s, "  </g>");
     }
+    let end = lead + used.saturating_sub(2 * lead);
+    wrap(&mut s, end, 'H');
+    wrap(&mut s, end + 1, 'X');
+    let _ = writeln!(
+        s,
+        "  <g class=\"legend\" transform=\"translate(12 {legend_y:.0})\" font-size=\"11\" fill=\"#333\">\n{}  </g>",
+        legend.0
+    );
     s.push_str("</svg>\n");
     s
+}
+
+/// The column of each gate and the number of columns (the phase wrapper's
+/// four included): a gate goes in the first column after every earlier gate
+/// whose span of rows meets its own, so gates on disjoint spans share one.
+fn layers(c: &Circuit, rows: &[usize]) -> (Vec<usize>, usize) {
+    let mut row_of = vec![0; c.width()];
+    for (r, &l) in rows.iter().enumerate() {
+        row_of[l] = r;
+    }
+    let mut free = vec![0usize; rows.len()];
+    let mut column = Vec::with_capacity(c.gates().len());
+    let mut used = 0;
+    for g in c.gates() {
+        let (lo, hi) = span(g, &row_of);
+        let k = free[lo..=hi].iter().copied().max().unwrap_or(0);
+        free[lo..=hi].iter_mut().for_each(|f| *f = k + 1);
+        column.push(k);
+        used = used.max(k + 1);
+    }
+    let wrap = if c.phase().is_some() { 4 } else { 0 };
+    (column, used + wrap)
+}
+
+/// The legend's SVG elements (one symbol and its meaning each, for the
+/// symbols the drawing uses) and the width it takes.
+fn legend(c: &Circuit) -> (String, f64) {
+    let kinds = |k: crate::circuit::Kind| c.gates().iter().any(|g| g.kind() == k);
+    let mut items: Vec<(&str, &str)> = vec![
+        ("●", "control on 1"),
+        ("○", "control on 0"),
+        ("⊕", "target (flip)"),
+    ];
+    if kinds(crate::circuit::Kind::And) {
+        items.push(("∧", "temporary AND"));
+    }
+    if kinds(crate::circuit::Kind::Measured) {
+        items.push(("M", "measured uncompute"));
+    }
+    if c.phase().is_some() {
+        items.push(("X H", "phase wrapper"));
+    }
+    if c.lines().iter().any(|l| l.role == Role::Ancilla) {
+        items.push(("┄", "ancilla, starts and ends at 0"));
+    }
+    let mut s = String::new();
+    let mut x = 0.0;
+    for (mark, meaning) in items {
+        let _ = writeln!(
+            s,
+            "    <text x=\"{x:.0}\" y=\"0\"><tspan font-size=\"13\">{mark}</tspan> {}</text>",
+            escape(meaning)
+        );
+        x += 7.0 * (mark.chars().count() + meaning.chars().count() + 4) as f64;
+    }
+    (s, x + 24.0)
 }

@@ -29,9 +29,9 @@ pub enum WriteError {
     /// A gate name that is not an identifier, or is taken by OpenQASM 2, `qelib1.inc` or a register.
     #[error("'{0}' cannot name the gate: it must start with a lowercase letter, hold only letters, digits and '_', and not be an OpenQASM 2 word, a qelib1.inc gate or a register's name")]
     BadGateName(String),
-    /// A gate definition cannot measure: a circuit with measured uncomputes
-    /// has no gate form.
-    #[error("gate {0} is a measured uncompute, which a gate definition cannot hold; write the circuit without --as-gate or with --uncompute toffoli")]
+    /// An OpenQASM 2 gate definition cannot measure: a circuit with measured
+    /// uncomputes has no OpenQASM 2 gate form (OpenQASM 3 writes a `def`).
+    #[error("gate {0} is a measured uncompute, which an OpenQASM 2 gate definition cannot hold; write it with --format qasm3 (a subroutine), without --as-gate, or with --uncompute toffoli")]
     MeasuredInGate(usize),
 }
 
@@ -284,7 +284,7 @@ impl crate::pipeline::Outcome {
 }
 
 /// Blanks out `//` comments, keeping every byte offset.
-fn strip_comments(text: &str) -> String {
+pub(super) fn strip_comments(text: &str) -> String {
     let mut out = String::with_capacity(text.len());
     let mut in_comment = false;
     let mut prev_slash = false;
@@ -311,19 +311,19 @@ fn strip_comments(text: &str) -> String {
     out
 }
 
-struct Reg {
-    first: u32,
-    size: u32,
+pub(super) struct Reg {
+    pub(super) first: u32,
+    pub(super) size: u32,
 }
 
 /// The declared quantum registers, found by name in constant time.
 #[derive(Default)]
-struct Regs {
-    by_name: std::collections::HashMap<String, Reg>,
+pub(super) struct Regs {
+    pub(super) by_name: std::collections::HashMap<String, Reg>,
 }
 
 impl Regs {
-    fn find(&self, name: &str) -> Option<&Reg> {
+    pub(super) fn find(&self, name: &str) -> Option<&Reg> {
         self.by_name.get(name)
     }
 }
@@ -761,7 +761,11 @@ struct Gadget {
     post: usize,
 }
 
-fn parse_index(src: &Source, text: &str, at: usize) -> Result<(String, Option<u32>), LocatedError> {
+pub(super) fn parse_index(
+    src: &Source,
+    text: &str,
+    at: usize,
+) -> Result<(String, Option<u32>), LocatedError> {
     let t = text.trim();
     let lead = at + (text.len() - text.trim_start().len());
     let (name, index) = match t.find('[') {
@@ -787,7 +791,11 @@ fn parse_index(src: &Source, text: &str, at: usize) -> Result<(String, Option<u3
     Ok((name.to_string(), index))
 }
 
-fn parse_decl(src: &Source, text: &str, at: usize) -> Result<(String, u32), LocatedError> {
+pub(super) fn parse_decl(
+    src: &Source,
+    text: &str,
+    at: usize,
+) -> Result<(String, u32), LocatedError> {
     let (name, size) = parse_index(src, text, at)?;
     match size {
         Some(s) if s > 0 => Ok((name, s)),
@@ -799,7 +807,7 @@ fn parse_decl(src: &Source, text: &str, at: usize) -> Result<(String, u32), Loca
 }
 
 /// Operands as (first line, Some(size) for a whole register).
-fn parse_operands(
+pub(super) fn parse_operands(
     src: &Source,
     regs: &Regs,
     text: &str,

@@ -1,6 +1,8 @@
 //! OpenQASM 3 (Cross et al., "OpenQASM 3: a broader and deeper quantum
 //! assembly language", ACM TQC 2022) writer: `qubit[n]` registers over
-//! `stdgates.inc`, the gate form as a `gate`, the measured uncompute as a
+//! `stdgates.inc`, the gate form as a `gate` (or, when the circuit holds
+//! measured uncomputes, as a subroutine `def NAME(qubit a, ...)` with a
+//! local `bit`: a gate body is unitary), the measured uncompute as a
 //! `measure` and an `if` block, and, with `keep_mct`, unlowered
 //! multi-controlled NOTs as `ctrl(k) @ x` with `negctrl` for controls on 0.
 //!
@@ -54,10 +56,10 @@ pub fn write_qasm3(
         if !super::gatedef::valid_gate_name(g) || regs.iter().any(|(r, _)| r == g) {
             return Err(WriteError::BadGateName(g.clone()));
         }
-        if let Some(k) = c.gates().iter().position(|g| g.is_measured()) {
-            return Err(WriteError::MeasuredInGate(k));
-        }
     }
+    // A `gate` body is unitary: a circuit with measured uncomputes is written
+    // as a subroutine (`def`), which may measure and branch on a local bit.
+    let subroutine = opts.gate.is_some() && c.measured_count() > 0;
     let mut s = String::from("OPENQASM 3.0;\ninclude \"stdgates.inc\";\n");
     header_comments(&mut s, header);
     if header.cost.is_some() && opts.keep_mct {
@@ -79,10 +81,22 @@ pub fn write_qasm3(
     let indent = if opts.gate.is_some() { "  " } else { "" };
     let mut body = String::new();
     let creg = creg_name(&regs);
+    if subroutine {
+        let _ = writeln!(body, "{indent}bit {creg};");
+    }
     for (k, g) in c.gates().iter().enumerate() {
         write_gate(&mut body, g, k, &name, indent, &creg, opts.keep_mct)?;
     }
-    if let Some(g) = &opts.gate {
+    if let (Some(g), true) = (&opts.gate, subroutine) {
+        let params: Vec<String> = args.iter().map(|a| format!("qubit {a}")).collect();
+        let _ = writeln!(
+            s,
+            "// def {g}: argument k is line k above; the ancillae are arguments that enter at |0> and leave at |0>; a subroutine, not a gate, because its measured uncomputes measure into the local bit {creg}\ndef {g}({}) {{\n{body}}}",
+            params.join(", ")
+        );
+        let all: Vec<String> = (0..c.width() as u32).map(|k| q(Line(k))).collect();
+        body = format!("{g}({});\n", all.join(", "));
+    } else if let Some(g) = &opts.gate {
         let _ = writeln!(
             s,
             "// gate {g}: argument k is line k above; the ancillae are arguments (a gate body cannot allocate) that enter at |0> and leave at |0>\ngate {g} {} {{\n{body}}}",
@@ -94,7 +108,7 @@ pub fn write_qasm3(
     for (name, size) in &regs {
         let _ = writeln!(s, "qubit[{size}] {name};");
     }
-    if c.measured_count() > 0 {
+    if c.measured_count() > 0 && !subroutine {
         let _ = writeln!(s, "bit {creg};");
     }
     if let Some(p) = c.phase() {
@@ -127,7 +141,7 @@ fn write_gate(
     if g.is_measured() {
         // The gadget of Jones (PRA 87, 022328, 2013, Fig. 3) and Gidney
         // (Quantum 2, 74, 2018, Fig. 3), as in the OpenQASM 2 writer.
-        let _ = writeln!(out, "h {t};\n{creg} = measure {t};");
+        let _ = writeln!(out, "{indent}h {t};\n{indent}{creg} = measure {t};");
         let mut block = String::new();
         for n in &negatives {
             let _ = write!(block, " x {n};");
@@ -136,7 +150,7 @@ fn write_gate(
         for n in &negatives {
             let _ = write!(block, " x {n};");
         }
-        let _ = writeln!(out, "if ({creg}) {{{block} x {t}; }}");
+        let _ = writeln!(out, "{indent}if ({creg}) {{{block} x {t}; }}");
         return Ok(());
     }
     if g.is_temporary_and() || (!keep_mct && cs.len() <= 2) {

@@ -1,7 +1,9 @@
 //! OpenQASM 3 reader for the subset oraculum writes: `qubit[n]` (and
 //! `qreg`) registers, `bit` declarations, `x`, `cx`, `CX`, `ccx` with
 //! `ctrl(k) @` and `negctrl(k) @` modifiers, `barrier`, `gate` definitions
-//! of those, the `h` pair of a phase oracle and the measured-uncompute
+//! of those, subroutines (`def NAME(qubit a, ...) { ... }` of the same
+//! statements, local `bit` declarations and measured-uncompute gadgets,
+//! called as `NAME(q[0], ...);`), the `h` pair of a phase oracle and the measured-uncompute
 //! gadget (`h t; m = measure t; if (m) { cz a, b; x t; }`, negative
 //! controls conjugated by `x` inside the block). Its own tokenizer and
 //! checks: it shares nothing with the writer.
@@ -113,12 +115,25 @@ fn tokenize(src: &Source) -> Result<Vec<Tok>, LocatedError> {
 enum Call {
     Flip(Vec<(u32, bool)>, u32),
     Def(usize, Vec<u32>),
+    /// A gate of a subroutine body (a flip or a measured uncompute), its
+    /// lines the argument positions.
+    Gate(Gate),
 }
 
 struct Def {
     name: String,
     arity: usize,
     body: Vec<Call>,
+    size: u64,
+    /// A `def` subroutine (called as `NAME(a, b);`), not a `gate`.
+    subroutine: bool,
+}
+
+/// The subroutine body being read: its arguments, calls and size so far.
+struct Body {
+    name: String,
+    args: Vec<String>,
+    calls: Vec<Call>,
     size: u64,
 }
 
@@ -142,6 +157,9 @@ struct Reader<'a> {
     defs: Vec<Def>,
     /// `h` statements: (gate position, line, offset).
     hadamards: Vec<(usize, u32, usize)>,
+    /// Inside a subroutine body: operands are its arguments, and gates go
+    /// into the body instead of the circuit.
+    body: Option<Body>,
 }
 
 /// The register name the library uses for a name read from a file.
@@ -260,6 +278,18 @@ impl<'a> Reader<'a> {
     /// `name` or `name[i]` against the declared registers.
     fn operand(&mut self) -> Result<(Operand, usize), ReadError> {
         let (name, at) = self.ident()?;
+        if let Some(b) = &self.body {
+            let k = b.args.iter().position(|a| *a == name).ok_or_else(|| {
+                self.err(at, format!("'{name}' is not an argument of '{}'", b.name))
+            })?;
+            if self.is_sym("[") {
+                return Err(self.err(
+                    at,
+                    "inside a subroutine, operands are its qubit arguments, without an index",
+                ));
+            }
+            return Ok((Operand::One(k as u32), at));
+        }
         let &(first, size) = self
             .regs
             .get(&name)
@@ -334,6 +364,41 @@ impl<'a> Reader<'a> {
 
     fn def_index(&self, name: &str) -> Option<usize> {
         self.defs.iter().position(|d| d.name == name)
+    }
+
+    /// The gates emitted so far where the next one goes: the subroutine
+    /// body being read, or the circuit.
+    fn emitted(&self) -> u64 {
+        self.body
+            .as_ref()
+            .map_or(self.gates.len() as u64, |b| b.size)
+    }
+
+    /// Emits one gate, its lines argument positions inside a subroutine.
+    fn emit(&mut self, g: Gate) {
+        match &mut self.body {
+            Some(b) => {
+                b.calls.push(Call::Gate(g));
+                b.size = b.size.saturating_add(1);
+            }
+            None => self.gates.push(g),
+        }
+    }
+
+    /// Applies definition `k` to `lines`: a call in the subroutine body
+    /// being read, or expanded into the circuit (checked against the gate
+    /// budget first).
+    fn apply_def(&mut self, k: usize, lines: Vec<u32>) -> Result<(), ReadError> {
+        let size = self.defs[k].size;
+        self.gate_limit(self.emitted().saturating_add(size))?;
+        match &mut self.body {
+            Some(b) => {
+                b.calls.push(Call::Def(k, lines));
+                b.size = b.size.saturating_add(size);
+            }
+            None => self.expand(k, lines),
+        }
+        Ok(())
     }
 
     /// `gate NAME a, b, ... { body }`.
@@ -426,7 +491,10 @@ impl<'a> Reader<'a> {
                 controls.extend(ops[pol.len()..ops.len() - 1].iter().map(|&o| (o, true)));
                 body.push(Call::Flip(controls, t));
                 size = size.saturating_add(1);
-            } else if let Some(k) = self.def_index(&g).filter(|_| pol.is_empty()) {
+            } else if let Some(k) = self
+                .def_index(&g)
+                .filter(|&k| pol.is_empty() && !self.defs[k].subroutine)
+            {
                 if ops.len() != self.defs[k].arity {
                     return Err(self.err(
                         s_at,
@@ -451,6 +519,7 @@ impl<'a> Reader<'a> {
             arity: args.len(),
             body,
             size,
+            subroutine: false,
         });
         Ok(())
     }
@@ -481,6 +550,22 @@ impl<'a> Reader<'a> {
                     let inner = *inner;
                     stack.push((d, a, pc + 1));
                     stack.push((inner, mapped, 0));
+                }
+                Call::Gate(g) => {
+                    let map = |c: &Control| Control {
+                        line: Line(a[c.line.index()]),
+                        positive: c.positive,
+                    };
+                    let t = Line(a[g.target().index()]);
+                    let cs = g.controls();
+                    let g = if g.is_measured() {
+                        Gate::measured(map(&cs[0]), map(&cs[1]), t)
+                    } else {
+                        Gate::new(cs.iter().map(map).collect(), t)
+                    }
+                    .expect("distinct arguments, checked in the definition and the call");
+                    self.gates.push(g);
+                    stack.push((d, a, pc + 1));
                 }
             }
         }
@@ -619,22 +704,202 @@ impl<'a> Reader<'a> {
                 "the block is not x on the negative controls, cz, the same x, x on the ancilla",
             ));
         }
-        self.gate_limit(self.gates.len() as u64 + 1)?;
+        self.gate_limit(self.emitted() + 1)?;
         let lit = |l: u32| Control {
             line: Line(l),
             positive: !pre.contains(&l),
         };
-        self.gates
-            .push(Gate::measured(lit(a), lit(b), Line(t)).expect("distinct, checked"));
+        self.emit(Gate::measured(lit(a), lit(b), Line(t)).expect("distinct, checked"));
         Ok(true)
     }
 
     fn declare_bit(&mut self, name: String, size: u32, at: usize) -> Result<(), ReadError> {
-        if self.regs.contains_key(&name) || self.bits.contains_key(&name) {
+        let argument = self.body.as_ref().is_some_and(|b| b.args.contains(&name));
+        if argument || self.regs.contains_key(&name) || self.bits.contains_key(&name) {
             return Err(self.err(at, format!("register '{name}' is declared twice")));
         }
         self.bits.insert(name, size);
         Ok(())
+    }
+
+    /// `def NAME(qubit a, qubit b, ...) { body }`: a subroutine of the
+    /// statements a circuit may hold (flips, calls of earlier gates and
+    /// subroutines, measured-uncompute gadgets on local bits), on its qubit
+    /// arguments; kept as calls, like a gate, and counted before expansion.
+    fn subroutine(&mut self, def_at: usize) -> Result<(), ReadError> {
+        if self.body.is_some() {
+            return Err(self.err(def_at, "a subroutine is defined at the top level"));
+        }
+        let (name, at) = self.ident()?;
+        if QASM_WORDS.contains(&name.as_str())
+            || self.def_index(&name).is_some()
+            || self.regs.contains_key(&name)
+            || self.bits.contains_key(&name)
+        {
+            return Err(self.err(at, format!("'{name}' is already defined")));
+        }
+        self.expect_sym("(")?;
+        let mut args: Vec<String> = Vec::new();
+        while !self.is_sym(")") {
+            let (ty, ty_at) = self.ident()?;
+            if ty != "qubit" || self.is_sym("[") {
+                return Err(self.err(
+                    ty_at,
+                    "a subroutine argument is read as one qubit: 'qubit NAME'",
+                ));
+            }
+            let (a, a_at) = self.ident()?;
+            if args.contains(&a) {
+                return Err(self.err(a_at, format!("argument '{a}' is named twice")));
+            }
+            args.push(a);
+            if !self.is_sym(",") {
+                break;
+            }
+            self.i += 1;
+        }
+        self.expect_sym(")")?;
+        if self.is_sym("->") {
+            return Err(self.err(self.at(), "a subroutine that returns a value is not read"));
+        }
+        self.expect_sym("{")?;
+        // The body sees its arguments and its own bits, not the file's.
+        let outer_bits = std::mem::take(&mut self.bits);
+        self.body = Some(Body {
+            name: name.clone(),
+            args,
+            calls: Vec::new(),
+            size: 0,
+        });
+        let read = self.subroutine_body(at);
+        self.bits = outer_bits;
+        let body = self.body.take().expect("set above");
+        read?;
+        self.defs.push(Def {
+            name,
+            arity: body.args.len(),
+            body: body.calls,
+            size: body.size,
+            subroutine: true,
+        });
+        Ok(())
+    }
+
+    /// The statements of a subroutine, up to its closing `}`.
+    fn subroutine_body(&mut self, at: usize) -> Result<(), ReadError> {
+        loop {
+            let s_at = self.at();
+            let word = match self.peek() {
+                Some(T::Sym("}")) => {
+                    self.i += 1;
+                    return Ok(());
+                }
+                Some(T::Sym(";")) => {
+                    self.i += 1;
+                    continue;
+                }
+                Some(T::Ident(w)) => w.clone(),
+                None => return Err(self.err(at, "this subroutine body has no closing '}'")),
+                Some(_) => return Err(self.err(s_at, "expected a statement")),
+            };
+            match word.as_str() {
+                "bit" => {
+                    self.i += 1;
+                    let (name, n_at) = self.ident()?;
+                    if self.is_sym("=") {
+                        return Err(self.err(n_at, "a measurement is read only as part of a measured uncompute, after the 'h' on its ancilla"));
+                    }
+                    self.expect_sym(";")?;
+                    self.declare_bit(name, 1, n_at)?;
+                }
+                "h" => {
+                    self.i += 1;
+                    let (op, _) = self.operand()?;
+                    self.expect_sym(";")?;
+                    let Operand::One(l) = op else {
+                        unreachable!("a subroutine's operands are single arguments")
+                    };
+                    if !self.gadget(l, s_at)? {
+                        return Err(self
+                            .err(s_at, "inside a subroutine, 'h' is read only as the start of a measured uncompute")
+                            .with_hint_text("h t; m = measure t; if (m) { x on each negative control; cz a, b; the same x; x t; }"));
+                    }
+                }
+                "barrier" => {
+                    self.i += 1;
+                    if !self.is_sym(";") {
+                        self.operands()?;
+                    }
+                    self.expect_sym(";")?;
+                }
+                "qubit" | "qreg" | "creg" | "gate" | "def" | "include" | "measure" | "reset"
+                | "if" | "for" | "while" | "let" | "const" | "input" | "output" | "return" => {
+                    return Err(self
+                        .err(s_at, format!("'{word}' is not read inside a subroutine"))
+                        .with_hint_text("a subroutine body may hold bit declarations, x, cx, CX, ccx (with ctrl/negctrl modifiers), barrier, earlier gates and subroutines, and measured-uncompute gadgets"));
+                }
+                _ if self.is_call() => self.call()?,
+                _ => self.application(s_at)?,
+            }
+        }
+    }
+
+    /// Whether the statement at hand is `NAME(...)` of a subroutine.
+    fn is_call(&self) -> bool {
+        match (
+            self.toks.get(self.i).map(|t| &t.t),
+            self.toks.get(self.i + 1).map(|t| &t.t),
+        ) {
+            (Some(T::Ident(n)), Some(T::Sym("("))) => {
+                self.def_index(n).is_some_and(|k| self.defs[k].subroutine)
+            }
+            _ => false,
+        }
+    }
+
+    /// `NAME(q, r, ...);`: a call of a subroutine on distinct single qubits.
+    fn call(&mut self) -> Result<(), ReadError> {
+        let (g, g_at) = self.ident()?;
+        let k = self.def_index(&g).expect("checked by is_call");
+        self.expect_sym("(")?;
+        let ops = if self.is_sym(")") {
+            Vec::new()
+        } else {
+            self.operands()?
+        };
+        self.expect_sym(")")?;
+        self.expect_sym(";")?;
+        let lines = self.distinct_qubits(&g, g_at, k, &ops)?;
+        self.apply_def(k, lines)
+    }
+
+    /// The operands of an application of definition `k`: as many as it
+    /// takes, single qubits, none twice.
+    fn distinct_qubits(
+        &self,
+        g: &str,
+        g_at: usize,
+        k: usize,
+        ops: &[(Operand, usize)],
+    ) -> Result<Vec<u32>, ReadError> {
+        let arity = self.defs[k].arity;
+        if ops.len() != arity {
+            return Err(self.err(
+                g_at,
+                format!("'{g}' takes {arity} qubit(s), found {}", ops.len()),
+            ));
+        }
+        let mut lines = Vec::with_capacity(arity);
+        for (o, o_at) in ops {
+            let Operand::One(l) = o else {
+                return Err(self.err(*o_at, format!("'{g}' takes single qubits")));
+            };
+            if lines.contains(l) {
+                return Err(self.err(*o_at, format!("'{g}' uses the same qubit twice")));
+            }
+            lines.push(*l);
+        }
+        Ok(lines)
     }
 
     /// `[ctrl/negctrl modifiers] gate operands;` at the top level.
@@ -662,7 +927,7 @@ impl<'a> Reader<'a> {
             if sizes.iter().any(|&s| s != reps) {
                 return Err(self.err(g_at, "whole-register operands differ in size"));
             }
-            self.gate_limit(self.gates.len() as u64 + reps as u64)?;
+            self.gate_limit(self.emitted() + reps as u64)?;
             for r in 0..reps {
                 let q: Vec<u32> = ops
                     .iter()
@@ -682,31 +947,19 @@ impl<'a> Reader<'a> {
                     .collect();
                 let gate = Gate::new(controls, Line(t))
                     .ok_or_else(|| self.err(g_at, format!("'{g}' uses the same qubit twice")))?;
-                self.gates.push(gate);
+                self.emit(gate);
             }
             return Ok(());
         }
+        if self.def_index(&g).is_some_and(|k| self.defs[k].subroutine) {
+            return Err(self.err(
+                g_at,
+                format!("'{g}' is a subroutine: call it as {g}(a, b, ...);"),
+            ));
+        }
         if let Some(k) = self.def_index(&g).filter(|_| pol.is_empty()) {
-            let arity = self.defs[k].arity;
-            if ops.len() != arity {
-                return Err(self.err(
-                    g_at,
-                    format!("gate '{g}' takes {arity} qubit(s), found {}", ops.len()),
-                ));
-            }
-            let mut lines = Vec::with_capacity(arity);
-            for (o, o_at) in &ops {
-                let Operand::One(l) = o else {
-                    return Err(self.err(*o_at, "a defined gate takes single qubits"));
-                };
-                if lines.contains(l) {
-                    return Err(self.err(*o_at, format!("'{g}' uses the same qubit twice")));
-                }
-                lines.push(*l);
-            }
-            self.gate_limit((self.gates.len() as u64).saturating_add(self.defs[k].size))?;
-            self.expand(k, lines);
-            return Ok(());
+            let lines = self.distinct_qubits(&g, g_at, k, &ops)?;
+            return self.apply_def(k, lines);
         }
         Err(self
             .err(at, format!("'{g}' is not read by oraculum"))
@@ -782,6 +1035,10 @@ impl<'a> Reader<'a> {
                     self.i += 1;
                     self.definition()?;
                 }
+                "def" => {
+                    self.i += 1;
+                    self.subroutine(at)?;
+                }
                 "barrier" => {
                     self.i += 1;
                     if !self.is_sym(";") {
@@ -801,12 +1058,13 @@ impl<'a> Reader<'a> {
                         self.hadamards.push((self.gates.len(), l, at));
                     }
                 }
-                "measure" | "reset" | "if" | "def" | "for" | "while" | "let" | "const"
-                | "input" | "output" => {
+                "measure" | "reset" | "if" | "for" | "while" | "let" | "const" | "input"
+                | "output" => {
                     return Err(self
                         .err(at, format!("'{word}' is not read: oraculum proves circuits of x, cx and ccx gates (and the measured-uncompute gadget after an 'h')"))
                         .with_hint_text("measure after the oracle, in the circuit that uses it"));
                 }
+                _ if self.is_call() => self.call()?,
                 _ => self.application(at)?,
             }
         }
@@ -845,6 +1103,7 @@ pub fn read_qasm3_with(path: &str, text: &str, limits: &ReadLimits) -> Result<Ci
         gates: Vec::new(),
         defs: Vec::new(),
         hadamards: Vec::new(),
+        body: None,
     };
     r.run()?;
     let mut gates = std::mem::take(&mut r.gates);
@@ -879,7 +1138,8 @@ pub fn read_qasm3_with(path: &str, text: &str, limits: &ReadLimits) -> Result<Ci
     Ok(c)
 }
 
-/// Reads an OpenQASM 2 or 3 file, by its version statement.
+/// Reads an OpenQASM 2 or 3 file, by its version statement (an OpenQASM 2
+/// file marked as the Clifford+T form by that form's reader).
 pub fn read_circuit_with(
     path: &str,
     text: &str,
@@ -887,6 +1147,8 @@ pub fn read_circuit_with(
 ) -> Result<Circuit, ReadError> {
     if is_qasm3(text) {
         read_qasm3_with(path, text, limits)
+    } else if super::is_clifford_t(text) {
+        super::read_clifford_t_with(path, text, limits)
     } else {
         super::qasm2::read_qasm_with(path, text, limits)
     }

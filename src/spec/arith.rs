@@ -120,6 +120,10 @@ pub struct ArithSpec {
     pub carry_out: bool,
     /// `exponent_bits` of `power` (0 for every other op).
     pub exponent_bits: usize,
+    /// `exponent_window` and `multiply_window` of `power`: the window sizes
+    /// of the windowed construction, when the spec fixes them (`None`: the
+    /// generator picks the construction and the windows by its cost model).
+    pub windows: Option<(usize, usize)>,
     /// `controlled`: a `ctrl[1]` register gates the whole map.
     pub controlled: bool,
     /// `data` words for `lookup`, one per address.
@@ -160,6 +164,11 @@ const MAX_LOOKUP_ADDRESS: usize = 20;
 
 /// Most exponent bits of `power`.
 pub const MAX_EXPONENT_BITS: usize = 1 << 16;
+
+/// Largest `exponent_window` and `multiply_window` of `power`: a lookup of
+/// the windowed construction reads `2^(exponent_window + multiply_window)`
+/// words, at most 2^16.
+pub const MAX_WINDOW: usize = 8;
 
 /// Longest number written as text: 65,536 binary digits and a prefix.
 const MAX_NUMBER_TEXT: usize = MAX_ARITH_WIDTH + 2 + MAX_ARITH_WIDTH / 4;
@@ -273,12 +282,12 @@ impl Validator<'_> {
                 "modulus" => matches!(op, Add | Subtract | Multiply | Power),
                 "relation" => op == Compare,
                 "carry_out" => op == Add && !has_modulus,
-                "exponent_bits" => op == Power,
+                "exponent_bits" | "exponent_window" | "multiply_window" => op == Power,
                 "data" | "data_width" => op == Lookup,
                 _ => true,
             }
         };
-        let optional: [(&'static str, Option<Range<usize>>); 7] = [
+        let optional: [(&'static str, Option<Range<usize>>); 9] = [
             ("constant", raw.constant.as_ref().map(|v| v.span())),
             ("modulus", raw.modulus.as_ref().map(|v| v.span())),
             ("relation", raw.relation.as_ref().map(|v| v.span())),
@@ -286,6 +295,14 @@ impl Validator<'_> {
             (
                 "exponent_bits",
                 raw.exponent_bits.as_ref().map(|v| v.span()),
+            ),
+            (
+                "exponent_window",
+                raw.exponent_window.as_ref().map(|v| v.span()),
+            ),
+            (
+                "multiply_window",
+                raw.multiply_window.as_ref().map(|v| v.span()),
             ),
             ("data", raw.data.as_ref().map(|v| v.span())),
             ("data_width", raw.data_width.as_ref().map(|v| v.span())),
@@ -463,6 +480,39 @@ impl Validator<'_> {
             }
             None => 0,
         };
+        let window =
+            |key: &'static str, v: &Option<Spanned<i64>>| -> Result<Option<usize>, SpecError> {
+                let Some(v) = v else { return Ok(None) };
+                let w = self.nonneg(v, key)? as usize;
+                if w == 0 || w > MAX_WINDOW {
+                    return Err(self.err(
+                        &v.span(),
+                        range(key, format!("must be between 1 and {MAX_WINDOW}")),
+                    ));
+                }
+                Ok(Some(w))
+            };
+        let windows = match (
+            window("exponent_window", &raw.exponent_window)?,
+            window("multiply_window", &raw.multiply_window)?,
+        ) {
+            (Some(e), Some(m)) => Some((e, m)),
+            (None, None) => None,
+            (Some(_), None) => {
+                let span = raw
+                    .exponent_window
+                    .as_ref()
+                    .map_or(op_raw.span(), |v| v.span());
+                return Err(self.err(&span, needs("multiply_window", "exponent_window".into())));
+            }
+            (None, Some(_)) => {
+                let span = raw
+                    .multiply_window
+                    .as_ref()
+                    .map_or(op_raw.span(), |v| v.span());
+                return Err(self.err(&span, needs("exponent_window", "multiply_window".into())));
+            }
+        };
         let (mut data, mut data_width) = (Vec::new(), 0);
         if op == ArithOp::Lookup {
             if width > MAX_LOOKUP_ADDRESS {
@@ -515,6 +565,7 @@ impl Validator<'_> {
             modulus: modulus.map(|(m, _)| m),
             carry_out: raw.carry_out.as_ref().is_some_and(|c| *c.get_ref()),
             exponent_bits,
+            windows,
             controlled: raw.controlled.as_ref().is_some_and(|c| *c.get_ref()),
             data,
             data_width,

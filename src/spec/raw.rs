@@ -69,6 +69,8 @@ pub struct RawArithmetic {
     pub modulus: Option<Spanned<Number>>,
     pub carry_out: Option<Spanned<bool>>,
     pub exponent_bits: Option<Spanned<i64>>,
+    pub exponent_window: Option<Spanned<i64>>,
+    pub multiply_window: Option<Spanned<i64>>,
     pub controlled: Option<Spanned<bool>>,
     pub data: Option<Spanned<Vec<Spanned<i64>>>>,
     pub data_width: Option<Spanned<i64>>,

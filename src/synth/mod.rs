@@ -22,8 +22,9 @@ mod transform;
 pub use arith::gidney::gidney_add;
 pub use arith::lookup::unary_lookup;
 pub use arith::{
-    arith_images, arith_lines, arithmetic, arithmetic_measured, arithmetic_tally, Registers, Tally,
-    TABLE_MAX_LINES,
+    arith_images, arith_lines, arithmetic, arithmetic_measured, arithmetic_tally,
+    arithmetic_tally_with, arithmetic_with, power_form, Choice, PowerForm, Registers, Tally,
+    KARATSUBA_FROM, TABLE_MAX_LINES,
 };
 pub use bennett::{bennett, bennett_counts, bennett_xag, xag_network, PEBBLE_SAT_MAX_NODES};
 pub use esop::{

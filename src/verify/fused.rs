@@ -370,6 +370,7 @@ mod tests {
             modulus: None,
             carry_out: carry,
             exponent_bits: 0,
+            windows: None,
             controlled,
             data: Vec::new(),
             data_width: 0,

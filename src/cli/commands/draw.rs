@@ -1,9 +1,9 @@
 //! `oraculum draw`: a circuit or a spec's circuit, in the terminal or as SVG.
 
-use crate::cli::files::{load_circuit, load_spec, write_atomic};
+use crate::cli::files::{load_spec, parse_circuit, read_text, write_atomic};
 use crate::cli::render::build_failure;
 use crate::cli::{code, Failure};
-use oraculum::export::{draw_svg, draw_text};
+use oraculum::export::{draw_svg, draw_text, with_header_labels};
 use oraculum::{build, BuildOptions, Method, Uncompute};
 use std::path::Path;
 
@@ -20,7 +20,14 @@ pub fn run(
 ) -> Result<i32, Failure> {
     let is_qasm = input.extension().is_some_and(|e| e == "qasm");
     let (circuit, title) = if is_qasm {
-        (load_circuit(input, max_gates)?, input.display().to_string())
+        // The header's line map names the lines (a comment: only the
+        // drawing reads it).
+        let text = read_text(input)?;
+        let circuit = parse_circuit(input, &text, max_gates)?;
+        (
+            with_header_labels(&circuit, &text),
+            input.display().to_string(),
+        )
     } else {
         let spec = load_spec(input)?;
         let mut out = build(
@@ -60,7 +67,16 @@ pub fn run(
         outln!("wrote {} ({} gates)", p.display(), circuit.gates().len());
         return Ok(code::DONE);
     }
+    // --width, else the terminal's width (when standard output is one),
+    // else $COLUMNS, else 100.
+    let terminal = || {
+        console::Term::stdout()
+            .size_checked()
+            .map(|(_, cols)| cols as usize)
+            .filter(|&c| c > 0)
+    };
     let cols = width
+        .or_else(terminal)
         .or_else(|| std::env::var("COLUMNS").ok().and_then(|c| c.parse().ok()))
         .unwrap_or(100);
     outln!("{title}");

@@ -109,6 +109,21 @@ impl Tally {
         self.max_controls = self.max_controls.max(k);
     }
 
+    /// Counts `count` gates of `k` controls each.
+    fn add_many(&mut self, k: usize, count: u64) {
+        if count == 0 {
+            return;
+        }
+        self.gates += count;
+        self.by_controls[k.min(3)] += count;
+        self.toffoli += count
+            * match k {
+                0 | 1 => 0,
+                k => 2 * k as u64 - 3,
+            };
+        self.max_controls = self.max_controls.max(k);
+    }
+
     fn since(&mut self, start: &Tally, end: &Tally) {
         self.gates += end.gates - start.gates;
         for i in 0..4 {
@@ -124,6 +139,7 @@ pub struct Builder {
     ctrl: Option<Line>,
     free: Vec<Line>,
     counting: Option<Tally>,
+    measure: bool,
 }
 
 impl Builder {
@@ -134,6 +150,7 @@ impl Builder {
             ctrl,
             free: Vec::new(),
             counting: None,
+            measure: false,
         }
     }
 
@@ -158,6 +175,44 @@ impl Builder {
         }
     }
 
+    /// Whether this builder only counts.
+    pub fn is_counting(&self) -> bool {
+        self.counting.is_some()
+    }
+
+    /// Counting only: adds the tally of the gates `[start, end)` once more,
+    /// for a stretch the generator would emit again identically up to line
+    /// names (the caller checks that it is counting).
+    pub fn repeat_count(&mut self, start: Mark, end: Mark) {
+        if let Some(t) = &mut self.counting {
+            t.since(&start.tally, &end.tally);
+        }
+    }
+
+    /// Scaffold gates `y[i] ^= p` for every set bit `i` of `word` (`p` a
+    /// literal or `One`); counting, the gates are tallied in bulk.
+    pub fn xor_word(&mut self, p: Bit, y: &[Line], word: &num_bigint::BigUint) {
+        if let Some(t) = &mut self.counting {
+            let ones = word.count_ones();
+            match p {
+                Bit::Zero => {}
+                Bit::One => t.add_many(0, ones),
+                Bit::Lit { neg, .. } => {
+                    t.add_many(1, ones);
+                    if neg {
+                        t.add_many(0, ones);
+                    }
+                }
+            }
+            return;
+        }
+        for (i, &l) in y.iter().enumerate() {
+            if word.bit(i as u64) {
+                self.xor_into(l, p, false);
+            }
+        }
+    }
+
     /// The finished circuit.
     pub fn finish(self) -> Circuit {
         self.circuit
@@ -166,6 +221,22 @@ impl Builder {
     /// Sets the line that effect gates from now on are controlled by.
     pub fn set_ctrl(&mut self, ctrl: Option<Line>) {
         self.ctrl = ctrl;
+    }
+
+    /// The line that effect gates are controlled by now.
+    pub fn ctrl(&self) -> Option<Line> {
+        self.ctrl
+    }
+
+    /// Builds with temporary ANDs and measured uncomputes where a generator
+    /// has such a form (`--uncompute measure`).
+    pub fn set_measure(&mut self, on: bool) {
+        self.measure = on;
+    }
+
+    /// Whether the generators use their measured forms.
+    pub fn measure(&self) -> bool {
+        self.measure
     }
 
     /// A clean ancilla (reused when one was released).
@@ -216,8 +287,9 @@ impl Builder {
         }
     }
 
-    /// Reverses the order of the gates since `start`: every gate is its own
-    /// inverse, so the part becomes its inverse.
+    /// Reverses the order of the gates since `start`, each replaced by its
+    /// inverse (a flip is its own; a temporary AND and a measured uncompute
+    /// are each other's), so the part becomes its inverse.
     /// (Counting, the order does not change the tally.)
     pub fn reverse_from(&mut self, start: Mark) {
         if self.counting.is_some() {
@@ -225,6 +297,9 @@ impl Builder {
         }
         let mut gates = self.circuit.gates().to_vec();
         gates[start.index..].reverse();
+        for g in &mut gates[start.index..] {
+            *g = g.inverse();
+        }
         self.circuit.set_gates(gates);
     }
 
@@ -237,7 +312,7 @@ impl Builder {
         }
         let gates: Vec<Gate> = self.circuit.gates()[start.index..end.index].to_vec();
         for g in gates.into_iter().rev() {
-            self.circuit.push(g);
+            self.circuit.push(g.inverse());
         }
     }
 

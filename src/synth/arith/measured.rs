@@ -1,12 +1,15 @@
 //! The arithmetic generators of the fault-tolerant constructions, by op:
 //! Gidney's adder ([`super::gidney`]) for `add` and `sub` without a control
 //! in `measure` mode, and unary iteration ([`super::lookup`]) for `lookup` in
-//! both modes. Every other op keeps its structural circuit, whose provable
-//! uncomputes the pipeline measures.
+//! both modes; the register comparator, controlled register adders,
+//! modular addition of registers and the register multiplier by the
+//! structural generators with the
+//! measured adder and comparator of [`super::chain`]. Every other op keeps
+//! its structural circuit, whose provable uncomputes the pipeline measures.
 
-use super::arith_lines;
 use super::gidney::gidney_add;
 use super::lookup::unary_lookup;
+use super::{arith_lines, generate, Builder};
 use crate::circuit::{Circuit, Gate};
 use crate::spec::{ArithOp, ArithSpec};
 
@@ -44,6 +47,34 @@ pub fn arithmetic_measured(spec: &ArithSpec) -> Option<Circuit> {
             }
             Some(c)
         }
+        // The register comparator, the controlled register adder and
+        // subtractor, and modular addition of registers: the structural
+        // generators with the builder in its measure form (chain.rs).
+        ArithOp::Compare if spec.constant.is_none() => Some(in_measure_form(spec)),
+        ArithOp::Add | ArithOp::Subtract if plain => Some(in_measure_form(spec)),
+        ArithOp::Add | ArithOp::Subtract if spec.modulus.is_some() && spec.constant.is_none() => {
+            Some(in_measure_form(spec))
+        }
+        ArithOp::Multiply if spec.constant.is_none() && spec.modulus.is_none() => {
+            Some(in_measure_form(spec))
+        }
         _ => None,
     }
+}
+
+/// The structural circuit of `spec` built with the measured forms of the
+/// register adder and comparator.
+fn in_measure_form(spec: &ArithSpec) -> Circuit {
+    let (lines, r) = arith_lines(spec);
+    let mut b = Builder::new(lines, None);
+    b.set_measure(true);
+    // Register products stay schoolbook here: the rows are the measured
+    // controlled adders the tests prove; Karatsuba's measure form is not
+    // built yet (its intermediate registers are undone by Toffolis).
+    let choice = super::Choice {
+        karatsuba_from: Some(usize::MAX),
+        ..super::Choice::default()
+    };
+    generate(&mut b, spec, &r, &choice);
+    b.finish()
 }

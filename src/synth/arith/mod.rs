@@ -24,6 +24,7 @@
 //! published count it meets. The verifier checks them all.
 
 mod build;
+mod chain;
 mod compare;
 pub mod gidney;
 pub mod lookup;
@@ -33,7 +34,10 @@ mod multiply;
 mod power;
 mod table;
 mod weight;
+mod window;
 
+pub use multiply::KARATSUBA_FROM;
+pub use power::{power_form, PowerForm};
 pub use table::{arith_images, TABLE_MAX_LINES};
 
 pub use build::{Bit, Builder, Tally};
@@ -92,20 +96,41 @@ fn const_bit(k: &BigUint, i: usize) -> bool {
     k.bit(i as u64)
 }
 
+/// The construction of an op that has more than one, when the caller fixes
+/// it (tests, benchmarks); `None` fields leave the choice to the generator.
+#[derive(Clone, Copy, Debug, Default, PartialEq, Eq)]
+pub struct Choice {
+    /// How `power` is built (default: [`power_form`]).
+    pub power: Option<PowerForm>,
+    /// `multiply` of two registers: Karatsuba from this width on, schoolbook
+    /// below (default [`KARATSUBA_FROM`]; values below 4 count as 4).
+    pub karatsuba_from: Option<usize>,
+}
+
 /// Generates the circuit of MCT gates for an arithmetic spec.
 pub fn arithmetic(spec: &ArithSpec) -> Circuit {
+    arithmetic_with(spec, &Choice::default())
+}
+
+/// [`arithmetic`] with the constructions of `choice`.
+pub fn arithmetic_with(spec: &ArithSpec, choice: &Choice) -> Circuit {
     if spec.op == ArithOp::Lookup {
         return lookup_of(spec, false);
     }
     let (lines, r) = arith_lines(spec);
     let mut b = Builder::new(lines, None);
-    generate(&mut b, spec, &r);
+    generate(&mut b, spec, &r, choice);
     b.finish()
 }
 
 /// Counts the gates of [`arithmetic`]'s circuit as they are generated,
 /// keeping none: the tally and the lines (ancillae included, lowering's pool not).
 pub fn arithmetic_tally(spec: &ArithSpec) -> (Tally, usize) {
+    arithmetic_tally_with(spec, &Choice::default())
+}
+
+/// [`arithmetic_tally`] with the constructions of `choice`.
+pub fn arithmetic_tally_with(spec: &ArithSpec, choice: &Choice) -> (Tally, usize) {
     if spec.op == ArithOp::Lookup {
         // At most 2^20 words (the reader's limit): built, then counted.
         let c = lookup_of(spec, false);
@@ -117,11 +142,11 @@ pub fn arithmetic_tally(spec: &ArithSpec) -> (Tally, usize) {
     }
     let (lines, r) = arith_lines(spec);
     let mut b = Builder::counting(lines);
-    generate(&mut b, spec, &r);
+    generate(&mut b, spec, &r, choice);
     b.tally()
 }
 
-fn generate(b: &mut Builder, spec: &ArithSpec, r: &Registers) {
+fn generate(b: &mut Builder, spec: &ArithSpec, r: &Registers, choice: &Choice) {
     let zero = BigUint::default();
     let k = spec.constant.as_ref().unwrap_or(&zero);
     match (spec.op, &spec.modulus) {
@@ -158,7 +183,14 @@ fn generate(b: &mut Builder, spec: &ArithSpec, r: &Registers) {
         (ArithOp::Multiply, Some(n)) => multiply::multiply_mod_in_place(b, &r.x, k, n, r.ctrl),
         (ArithOp::Multiply, None) => match &spec.constant {
             Some(c) => multiply::multiply_const(b, &r.a, c, &r.p, r.ctrl),
-            None => multiply::multiply(b, &r.a, &r.b, &r.p, r.ctrl),
+            None => multiply::multiply(
+                b,
+                &r.a,
+                &r.b,
+                &r.p,
+                r.ctrl,
+                choice.karatsuba_from.unwrap_or(KARATSUBA_FROM),
+            ),
         },
         (ArithOp::Power, n) => power::power(
             b,
@@ -167,6 +199,7 @@ fn generate(b: &mut Builder, spec: &ArithSpec, r: &Registers) {
             k,
             n.as_ref().expect("power has a modulus"),
             r.ctrl,
+            choice.power.unwrap_or_else(|| power_form(spec)),
         ),
         (ArithOp::Weight, _) => weight::weight(b, &r.a, &r.y, r.ctrl),
         (ArithOp::Lookup, _) => unreachable!("lookup is built by unary iteration"),
@@ -174,8 +207,12 @@ fn generate(b: &mut Builder, spec: &ArithSpec, r: &Registers) {
 }
 
 /// `b += a` (mod `2^n`, carry to `cout`), Cuccaro form when uncontrolled,
-/// carry chain with controlled effects otherwise.
+/// carry chain with controlled effects otherwise; in the builder's measure
+/// form, Gidney's chain of temporary ANDs ([`chain::add`]).
 fn add(b: &mut Builder, a: &[Line], sum: &[Line], cout: Option<Line>, ctrl: Option<Line>) {
+    if b.measure() {
+        return chain::add(b, a, sum, cout, ctrl);
+    }
     match ctrl {
         None => cuccaro(b, a, sum, cout),
         Some(c) => {
@@ -263,8 +300,12 @@ fn add_in_place(b: &mut Builder, x: &[Line], q: &[Bit], cout: Option<Line>) {
 }
 
 /// `y ^= (a < b)`: the carry-out of `!a + b` on an in-place MAJ chain, undone
-/// afterwards; one clean ancilla, `2n - 1` Toffolis.
+/// afterwards; one clean ancilla, `2n - 1` Toffolis. In the builder's measure
+/// form, the chain of temporary ANDs ([`chain::less_than`]): `n`.
 fn less_than(b: &mut Builder, a: &[Line], bb: &[Line], y: Line) {
+    if b.measure() {
+        return chain::less_than(b, a, bb, y);
+    }
     let w = a.len();
     if w == 1 {
         b.and_into(y, Bit::of(a[0]).not(), Bit::of(bb[0]), true);
