@@ -116,6 +116,29 @@ fn cost_of_a_spec_counts_by_streaming() {
     let v: serde_json::Value = serde_json::from_str(&out).unwrap();
     assert!(v["toffoli_at_most"].as_u64().unwrap() > 0, "{out}");
     assert!(v["qubits"].as_u64().unwrap() >= 8, "{out}");
+    // The windows the spec fixes are the ones counted.
+    std::fs::write(
+        dir.path().join("w.toml"),
+        "kind = \"arithmetic\"\nop = \"power\"\nconstant = 7\nmodulus = 15\nexponent_bits = 4\nexponent_window = 3\nmultiply_window = 2\n",
+    )
+    .unwrap();
+    let o = run_in(dir.path(), &["cost", "w.toml", "--json"]);
+    let (out, err) = text(&o);
+    assert_eq!(o.status.code(), Some(0), "{err}");
+    let w: serde_json::Value = serde_json::from_str(&out).unwrap();
+    assert_eq!(
+        w["construction"], "windowed: lookups addressed by 3 exponent bits and 2 factor bits",
+        "{out}"
+    );
+    // A window key alone is an error at its line and column, exit 2.
+    std::fs::write(
+        dir.path().join("half.toml"),
+        "kind = \"arithmetic\"\nop = \"power\"\nconstant = 7\nmodulus = 15\nexponent_bits = 4\nexponent_window = 3\n",
+    )
+    .unwrap();
+    let o = run_in(dir.path(), &["cost", "half.toml"]);
+    assert_eq!(o.status.code(), Some(2), "{:?}", text(&o));
+    assert!(text(&o).1.contains("half.toml:6:19"), "{:?}", text(&o));
     // A function spec is not counted this way.
     let o = run_in(dir.path(), &["cost", "specs/greenhouse.toml"]);
     assert_eq!(o.status.code(), Some(2), "{:?}", text(&o));

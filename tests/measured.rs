@@ -102,9 +102,10 @@ fn demo_specs_with_measured_uncomputes_are_proven_and_broken_gadgets_refuted() {
                 bad.set_gates(gates);
                 let v = verify(&bad, &s, &VerifyOptions::default()).unwrap();
                 let Some(p) = problem(&v) else {
-                    // Proven: then the line moved to must hold the same
-                    // literal as the control on every state at that gate
-                    // (a copy of it), checked here by running the gates before.
+                    // Proven: then the AND with the moved control must equal
+                    // the AND with the original on every state at that gate
+                    // (the line moved to is a copy of the control wherever the
+                    // other control holds), checked by running the gates before.
                     let free: Vec<usize> = (0..c.width())
                         .filter(|&i| c.lines()[i].register != "anc")
                         .collect();
@@ -118,9 +119,13 @@ fn demo_specs_with_measured_uncomputes_are_proven_and_broken_gadgets_refuted() {
                             x |= ((st >> j) & 1) << i;
                         }
                         let x = c.gates()[..k].iter().fold(x, |x, h| h.apply(x));
+                        let holds = |line: oraculum::Line, positive: bool| {
+                            ((x >> line.0) & 1 == 1) == positive
+                        };
+                        let other = holds(cs[1].line, cs[1].positive);
                         assert_eq!(
-                            (x >> l.0) & 1,
-                            (x >> cs[0].line.0) & 1,
+                            holds(l, cs[0].positive) && other,
+                            holds(cs[0].line, cs[0].positive) && other,
                             "{name}: moved control proven"
                         );
                     }

@@ -214,3 +214,47 @@ fn window_keys_are_read_and_checked() {
     let e = parse_spec("w.toml", add).expect_err("add").to_string();
     assert!(e.contains("exponent_window"), "{e}");
 }
+
+/// The windowed count in closed form, from two outside-checked parts: the
+/// modular adder's own count (the `op = "add", modulus = N` spec) and the
+/// unary-iteration lookup's `2(L - 2)` (Babbush et al. 2018 with every
+/// uncompute a Toffoli), per exponent window `2 ceil(n / wm) - 1` adders and
+/// `4 ceil(n / wm) - 1` lookups (the first looked up straight into the clean
+/// register, every other one undone); and the ratio to Gidney and Ekerå's
+/// `2 n m / (we wm) * (2n + 2^(we + wm))` at the same windows (their eq. 1;
+/// the per-addition count recalled from memory) is the 4 of a modular adder
+/// of 8n against 2n and lookups at four times theirs.
+#[test]
+fn windowed_count_in_closed_form_and_against_gidney_ekera() {
+    let n = 128usize;
+    let m = 192usize;
+    let modulus = format!("\"0x{}b\"", "f".repeat(n / 4 - 1)); // 2^128 - 5
+    let text = format!(
+        "kind = \"arithmetic\"\nop = \"power\"\nconstant = 3\nmodulus = {modulus}\nexponent_bits = {m}\n"
+    );
+    let (_, a) = arith(&text);
+    let (_, add) = arith(&format!(
+        "kind = \"arithmetic\"\nop = \"add\"\nmodulus = {modulus}\n"
+    ));
+    let adder = oraculum::synth::arithmetic_tally(&add).0.toffoli;
+    for (we, wm) in [(5usize, 5usize), (4, 4), (3, 6)] {
+        let ours = arithmetic_tally_with(&a, &windowed(we, wm)).0.toffoli;
+        let mut want = 0u64;
+        for e0 in (0..m).step_by(we) {
+            let le = we.min(m - e0);
+            let mut first = true;
+            for f0 in (0..n).step_by(wm) {
+                let lm = wm.min(n - f0);
+                let lookup = 2 * ((1u64 << (le + lm)) - 2);
+                want += if first { lookup } else { 2 * lookup + adder };
+                want += 2 * lookup + adder;
+                first = false;
+            }
+        }
+        assert_eq!(ours, want, "windows {we}, {wm}");
+        let ge =
+            2.0 * (n * m) as f64 / (we * wm) as f64 * (2.0 * n as f64 + (1u64 << (we + wm)) as f64);
+        let ratio = ours as f64 / ge;
+        assert!((3.3..4.2).contains(&ratio), "windows {we}, {wm}: {ratio}");
+    }
+}

@@ -47,11 +47,17 @@ pub fn candidates(spec: &Spec, thorough: bool) -> Vec<Method> {
             if a.layout().sizes().iter().map(|s| s.1).sum::<usize>()
                 <= crate::synth::TABLE_MAX_LINES =>
         {
-            vec![
+            let mut v = vec![
                 Method::Structural,
                 Method::Transform,
                 Method::TransformBidir,
-            ]
+            ];
+            // An op that writes an output register is also a function of
+            // its other lines.
+            if crate::synth::arith_function(a).is_some() {
+                v.extend([Method::ReedMuller, Method::Esop, Method::Bennett]);
+            }
+            v
         }
         SpecBody::Arithmetic(_) => vec![Method::Structural],
     }
@@ -297,9 +303,9 @@ pub fn tradeoff_with_progress(spec: &Spec, opts: &BuildOptions, progress: &dyn P
 
 /// The ranking of `auto` and `compare`: within the qubit budget, then
 /// verified, then fewest Toffoli-equivalents (Toffolis, plus temporary ANDs
-/// in `measure` mode; in `toffoli` mode there are none), qubits and gates
-/// before lowering.
-fn rank(o: &Outcome, max_qubits: Option<usize>) -> (u8, u8, usize, usize, usize) {
+/// in `measure` mode; in `toffoli` mode there are none), T-count, qubits
+/// and gates before lowering.
+fn rank(o: &Outcome, max_qubits: Option<usize>) -> (u8, u8, usize, usize, usize, usize) {
     let verdict = match &o.verification {
         Verification::Ran(Verdict::Proven { .. }) | Verification::Skipped { .. } => 0,
         Verification::Ran(Verdict::Refuted { .. }) => 1,
@@ -309,6 +315,9 @@ fn rank(o: &Outcome, max_qubits: Option<usize>) -> (u8, u8, usize, usize, usize)
         over,
         verdict,
         o.cost.toffoli_equivalent,
+        // Ties in Toffoli-equivalents go to fewer T gates (in measure mode a
+        // temporary AND costs 4 T where a Toffoli costs 7).
+        o.cost.t_count,
         o.cost.qubits,
         o.cost.mct_total(),
     )

@@ -22,9 +22,9 @@ mod transform;
 pub use arith::gidney::gidney_add;
 pub use arith::lookup::unary_lookup;
 pub use arith::{
-    arith_images, arith_lines, arithmetic, arithmetic_measured, arithmetic_tally,
-    arithmetic_tally_with, arithmetic_with, power_form, Choice, PowerForm, Registers, Tally,
-    KARATSUBA_FROM, TABLE_MAX_LINES,
+    arith_function, arith_images, arith_lines, arithmetic, arithmetic_measured, arithmetic_tally,
+    arithmetic_tally_with, arithmetic_with, construction, power_form, Choice, PowerForm, Registers,
+    Tally, KARATSUBA_FROM, TABLE_MAX_LINES,
 };
 pub use bennett::{bennett, bennett_counts, bennett_xag, xag_network, PEBBLE_SAT_MAX_NODES};
 pub use esop::{
@@ -66,17 +66,21 @@ use std::fmt;
 #[strum(serialize_all = "kebab-case")]
 pub enum Method {
     /// Positive-polarity Reed-Muller expansion, one MCT per monomial.
-    #[strum(message = "functions: positive-polarity Reed-Muller expansion, one gate per monomial")]
+    #[strum(
+        message = "functions (and small output-writing arithmetic): positive-polarity Reed-Muller expansion, one gate per monomial"
+    )]
     ReedMuller,
     /// ESOP extraction and exorlink minimization, one gate per cube and output.
-    #[strum(message = "functions: minimized exclusive-or sum of products, one gate per cube")]
+    #[strum(
+        message = "functions (and small output-writing arithmetic): minimized exclusive-or sum of products, one gate per cube"
+    )]
     Esop,
     /// Minimum ESOP (at most 5 inputs), one gate per cube and output.
     #[strum(message = "functions of at most 5 inputs: minimum exclusive-or sum of products")]
     EsopExact,
     /// Logic network computed into ancillae, copied out, uncomputed.
     #[strum(
-        message = "functions: logic network computed, copied, uncomputed; a qubit budget schedules recomputation"
+        message = "functions (and small output-writing arithmetic): logic network computed, copied, uncomputed; a qubit budget schedules recomputation"
     )]
     Bennett,
     /// The network rewritten to fewer ANDs, then computed, copied, uncomputed.
@@ -392,10 +396,48 @@ fn synthesize_plain(
             check_gates(&c, limits)?;
             Ok(c.into())
         }
+        (SpecBody::Arithmetic(a), m @ (Method::ReedMuller | Method::Esop | Method::Bennett)) => {
+            // The same map as a function of the lines it does not write.
+            let (f, ins, outs) = arith_function(a).ok_or(SynthError::NotApplicable {
+                method: m.name(),
+                kind: "arithmetic",
+                hint: "a function table of the map takes an op that writes an output register (compare, weight, multiply without modulus, lookup) and at most 16 register lines; use structural",
+            })?;
+            let mut s: Synthesis = match m {
+                Method::ReedMuller => reed_muller(&f, limits)?.into(),
+                Method::Esop => esop::esop(&f, limits, progress)?.into(),
+                _ => bennett(&f, limits, progress)?,
+            };
+            // x (inputs), y (outputs), then ancillae: onto the registers.
+            let (n, m_out) = (ins.len(), outs.len());
+            let mut c = Circuit::new(arith_lines(a).0);
+            let base = c.width();
+            while c.width() < base + s.circuit.width() - n - m_out {
+                c.add_ancilla();
+            }
+            for g in s.circuit.gates() {
+                let g = g
+                    .renamed(|l| {
+                        let i = l.index();
+                        if i < n {
+                            ins[i]
+                        } else if i < n + m_out {
+                            outs[i - n]
+                        } else {
+                            crate::circuit::Line((base + i - n - m_out) as u32)
+                        }
+                    })
+                    .expect("a one-to-one renaming");
+                c.push(g);
+            }
+            check_gates(&c, limits)?;
+            s.circuit = c;
+            Ok(s)
+        }
         (SpecBody::Arithmetic(_), m) => Err(SynthError::NotApplicable {
             method: m.name(),
             kind: "arithmetic",
-            hint: "use structural, transform, transform-bidir or auto",
+            hint: "use structural, transform, transform-bidir, reed-muller, esop, bennett (output-writing ops) or auto",
         }),
     }
 }

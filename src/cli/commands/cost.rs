@@ -47,6 +47,7 @@ fn run_spec(path: &Path, json: bool) -> Result<i32, Failure> {
     let (t, lines) = oraculum::synth::arithmetic_tally(a);
     let qubits = lines + t.max_controls.saturating_sub(2);
     let seconds = start.elapsed().as_secs_f64();
+    let construction = oraculum::synth::construction(a);
     if json {
         let v = serde_json::json!({
             "spec": path.display().to_string(),
@@ -54,6 +55,7 @@ fn run_spec(path: &Path, json: bool) -> Result<i32, Failure> {
             "toffoli_at_most": t.toffoli,
             "gates_before_lowering": t.gates,
             "by_controls": t.by_controls,
+            "construction": construction,
             "seconds": seconds,
         });
         outln!("{}", serde_json::to_string_pretty(&v).unwrap_or_default());
@@ -68,6 +70,9 @@ fn run_spec(path: &Path, json: bool) -> Result<i32, Failure> {
             t.by_controls[2],
             t.by_controls[3]
         );
+        if let Some(c) = construction {
+            outln!("  construction: {c}");
+        }
     }
     Ok(code::DONE)
 }

@@ -38,7 +38,7 @@ mod window;
 
 pub use multiply::KARATSUBA_FROM;
 pub use power::{power_form, PowerForm};
-pub use table::{arith_images, TABLE_MAX_LINES};
+pub use table::{arith_function, arith_images, TABLE_MAX_LINES};
 
 pub use build::{Bit, Builder, Tally};
 pub use measured::{arithmetic_measured, lookup_of};
@@ -105,6 +105,26 @@ pub struct Choice {
     /// `multiply` of two registers: Karatsuba from this width on, schoolbook
     /// below (default [`KARATSUBA_FROM`]; values below 4 count as 4).
     pub karatsuba_from: Option<usize>,
+}
+
+/// The construction the generator uses for `spec` where an op has more
+/// than one (`power`, `multiply` of two registers), in words; `None` for
+/// the other ops.
+pub fn construction(spec: &ArithSpec) -> Option<String> {
+    match spec.op {
+        ArithOp::Power => Some(match power_form(spec) {
+            PowerForm::PerBit => "one controlled modular multiplication per exponent bit".into(),
+            PowerForm::Windowed { exponent, factor } => format!(
+                "windowed: lookups addressed by {exponent} exponent bits and {factor} factor bits"
+            ),
+        }),
+        ArithOp::Multiply if spec.constant.is_none() => Some(if spec.width >= KARATSUBA_FROM {
+            format!("Karatsuba, schoolbook below {KARATSUBA_FROM} bits")
+        } else {
+            "schoolbook".into()
+        }),
+        _ => None,
+    }
 }
 
 /// Generates the circuit of MCT gates for an arithmetic spec.

@@ -3,8 +3,51 @@
 //! when the registers are small. Outside the domain of a modular op the map
 //! is the identity, which keeps it a bijection (the domain maps onto itself).
 
-use crate::spec::{ArithOp, ArithSpec, Relation};
+use crate::circuit::Line;
+use crate::logic::{Dag, TruthTable};
+use crate::spec::{ArithOp, ArithSpec, FunctionSpec, Output, OutputDef, Relation};
 use num_traits::ToPrimitive;
+
+/// The map of an op that writes an output register (`y ^= f(inputs)`:
+/// `compare`, `weight`, `multiply` without a modulus, `lookup`) as a function
+/// spec over its other lines, for the function methods (`reed-muller`,
+/// `esop`, `bennett`) that `auto` also runs on small registers; with the
+/// arithmetic lines of the function's inputs and outputs, in order. `None`
+/// for the in-place ops and past [`TABLE_MAX_LINES`] lines.
+pub fn arith_function(spec: &ArithSpec) -> Option<(FunctionSpec, Vec<Line>, Vec<Line>)> {
+    let out_reg = match spec.op {
+        ArithOp::Compare | ArithOp::Weight | ArithOp::Lookup => "y",
+        ArithOp::Multiply if spec.modulus.is_none() => "p",
+        _ => return None,
+    };
+    let images = arith_images(spec)?;
+    let lines = spec.layout().lines();
+    let (outs, ins): (Vec<usize>, Vec<usize>) =
+        (0..lines.len()).partition(|&i| lines[i].register == out_reg);
+    let name = |i: usize| format!("{}{}", lines[i].register, lines[i].index);
+    let state = |x: u64| -> u64 {
+        ins.iter()
+            .enumerate()
+            .map(|(j, &l)| ((x >> j) & 1) << l)
+            .sum()
+    };
+    let outputs = outs
+        .iter()
+        .map(|&o| Output {
+            name: name(o),
+            def: OutputDef::Table(TruthTable::from_fn(ins.len(), |x| {
+                (images[state(x) as usize] >> o) & 1 == 1
+            })),
+        })
+        .collect();
+    let f = FunctionSpec {
+        inputs: ins.iter().map(|&i| name(i)).collect(),
+        outputs,
+        dag: Dag::default(),
+    };
+    let line = |v: Vec<usize>| v.into_iter().map(|i| Line(i as u32)).collect();
+    Some((f, line(ins), line(outs)))
+}
 
 /// Most lines of a map written as a table.
 pub const TABLE_MAX_LINES: usize = 16;
