@@ -7,9 +7,9 @@
 //! spec's expected rows come from the compiled expressions
 //! ([`super::program`]) or the bit-sliced arithmetic references
 //! ([`super::ripple`]), and the rows are compared word by word. Adders,
-//! subtractors and comparators of two registers skip the expected rows:
-//! [`super::fused`] runs the reference's chain and the comparison in one
-//! pass over the circuit's rows.
+//! subtractors, comparators and functions with expression outputs and no
+//! control skip the pattern and expected rows: [`super::fused`] compares
+//! the circuit's rows in one pass (running the adder's chain there).
 
 use super::bind::{bind, Binding};
 use super::fused::{self, Fused};
@@ -122,7 +122,18 @@ pub(super) fn verify_words(
     let unbound: Vec<usize> = (0..circuit.width())
         .filter(|l| !binding.free.contains(l))
         .collect();
+    let plain_function = match &model {
+        Model::Function { outputs, .. } => {
+            !super::bind::outer_control(spec)
+                && outputs
+                    .iter()
+                    .enumerate()
+                    .all(|(k, r)| matches!(r, Reference::Expr(e) if *e == k))
+        }
+        _ => false,
+    };
     let checker = Checker {
+        one_pass: fused.is_some() || plain_function,
         fused,
         low,
         unbound,
@@ -144,7 +155,7 @@ pub(super) fn verify_words(
     // A cancelled block is `Some(Err(()))`, so that the search ends there as
     // at a failure instead of passing over every remaining block.
     // Blocks go to threads in runs of about 2^20 gate x word operations, so a
-    // short circuit does not pay the scheduler once per 4,096 states.
+    // short circuit does not pay the scheduler once per 8,192 states.
     let per_block = (circuit.gates().len() + 2 * circuit.width()).max(1) * W;
     let run = (1usize << 20).div_ceil(per_block).clamp(1, 64);
     // Block numbers fit a usize: the state space is at most 2^63 states.
@@ -201,6 +212,9 @@ struct Work {
 struct Checker<'a> {
     /// The one-pass check of an adder, subtractor or comparator, if the spec is one.
     fused: Option<Fused>,
+    /// Blocks checked in one pass: a fused op, or a function without a
+    /// control whose output `k` is the program's output `k`.
+    one_pass: bool,
     /// The pattern rows of the low state bits, the same on every block.
     low: Vec<[u64; W]>,
     /// The lines that are no state bit (ancillae), 0 at the start.
@@ -376,8 +390,8 @@ impl Checker<'_> {
         work: &mut Work,
         checked: &AtomicU64,
     ) -> Option<u64> {
-        if let Some(plan) = &self.fused {
-            let bad = self.fused_block(plan, base, work);
+        if self.one_pass {
+            let bad = self.one_pass(base, work);
             return self.first_bad(base, first, end, &bad, &[!0; W], checked);
         }
         self.inputs(base, &mut work.inputs);
@@ -414,10 +428,16 @@ impl Checker<'_> {
     }
 
     /// The rows after the circuit on the block at word `base`, checked in
-    /// one pass against the fused op: the OR of every wrong state's bits.
-    fn fused_block(&self, plan: &Fused, base: u64, work: &mut Work) -> [u64; W] {
-        const { assert!(W <= 64 && W.is_multiple_of(fused::C)) };
-        let rows = &mut work.rows;
+    /// one pass against the fused op or the function's outputs: the OR of
+    /// every wrong state's bits.
+    fn one_pass(&self, base: u64, work: &mut Work) -> [u64; W] {
+        const { assert!(W <= 128 && W.is_multiple_of(fused::C)) };
+        let Work {
+            rows,
+            scratch,
+            temp,
+            ..
+        } = work;
         rows.resize(self.width, [0; W]);
         let mut sources: [&[u64; W]; 64] = [&self.zero; 64];
         for (bit, s) in sources.iter_mut().take(self.binding.free.len()).enumerate() {
@@ -430,12 +450,26 @@ impl Checker<'_> {
             .run_block_checked::<W>(rows, &mut bad)
             .expect("the program was built for this width");
         let block = fused::Block {
-            plan,
             lines: &self.binding.free,
             ancillae: &self.binding.ancillae,
             sources: &sources[..self.binding.free.len()],
         };
-        fused::check::<W>(self.dispatch, &block, rows, &mut bad);
+        match (&self.fused, &self.model) {
+            (Some(plan), _) => fused::check::<W>(self.dispatch, &block, plan, rows, &mut bad),
+            (
+                None,
+                Model::Function {
+                    inputs, program, ..
+                },
+            ) => {
+                temp.resize(program.outputs(), [0; W]);
+                program
+                    .evaluate::<W>(base, scratch, temp)
+                    .expect("compiled for this block size");
+                fused::check_function::<W>(self.dispatch, &block, *inputs, temp, rows, &mut bad);
+            }
+            _ => unreachable!("one pass is taken for fused ops and plain functions"),
+        }
         bad
     }
 

@@ -1,12 +1,14 @@
 //! The check of a block against an adder, subtractor or comparator in one pass:
 //! the reference's ripple chain and the comparison with the circuit's rows
-//! fused, a chunk of [`C`] words at a time in vector registers.
+//! fused, a chunk of [`C`] words at a time in vector registers; and the same
+//! one-pass comparison for a function spec against its compiled outputs
+//! ([`check_function`]).
 //!
 //! The materialized route ([`super::reference::sliced`]) writes the input
 //! patterns, the expected rows and the chain's rows to memory and compares
 //! row by row: about 130 row passes per block for a 10-bit adder beside its
 //! 60 gates. Here the state patterns are read from rows built once (the low
-//! [`LOW`] state bits are the same on every block) or are all-0 or all-1
+//! state bits, [`low_bits`], are the same on every block) or are all-0 or all-1
 //! rows (the higher bits are constant on a block), the chain's carry and the
 //! OR of every difference stay in registers, and each circuit row is read
 //! once: per bit of the register one load of each operand's pattern, one of
@@ -87,8 +89,8 @@ impl Fused {
 
 /// The rows of a constant state bit (constants, not state: promoted to
 /// read-only data where they are borrowed).
-const ZERO: [u64; 64] = [0; 64];
-const ONES: [u64; 64] = [!0; 64];
+const ZERO: [u64; 128] = [0; 128];
+const ONES: [u64; 128] = [!0; 128];
 
 /// The pattern rows of the low state bits, the same on every block.
 pub(super) fn low_patterns<const W: usize>(bits: usize) -> Vec<[u64; W]> {
@@ -110,9 +112,9 @@ pub(super) fn source<const W: usize>(low: &[[u64; W]], bit: usize, base: u64) ->
         &low[bit]
     } else {
         let on = (base >> (bit - 6)) & 1 == 1;
-        let row: &'static [u64; 64] = if on { &ONES } else { &ZERO };
+        let row: &'static [u64; 128] = if on { &ONES } else { &ZERO };
         let row = &row[..W];
-        row.try_into().expect("a block of at most 64 words")
+        row.try_into().expect("a block of at most 128 words")
     }
 }
 
@@ -163,10 +165,9 @@ impl std::ops::Not for V {
     }
 }
 
-/// What one chunk's check needs: the plan, the circuit's line of every
-/// state bit, and the rows.
+/// What a block's check needs besides the rows: the circuit's line of
+/// every state bit, the ancillae, and each state bit's pattern.
 pub(super) struct Block<'a, const W: usize> {
-    pub(super) plan: &'a Fused,
     /// Circuit line of each state bit (the binding's free lines).
     pub(super) lines: &'a [usize],
     /// Lines that must end at 0.
@@ -179,8 +180,10 @@ pub(super) struct Block<'a, const W: usize> {
 /// the bit the op leaves on `b` and the next carry. Returns the OR of the
 /// differences (inputs changed on `a`, results wrong on `b`) and the last carry.
 #[inline(always)]
+#[allow(clippy::too_many_arguments)]
 fn chain<const W: usize>(
     b: &Block<'_, W>,
+    f: &Fused,
     rows: &[[u64; W]],
     ch: usize,
     on: V,
@@ -188,7 +191,6 @@ fn chain<const W: usize>(
     mut carry: V,
     step: impl Fn(V, V, V) -> (V, V),
 ) -> (V, V) {
-    let f = b.plan;
     let (n, c0) = (f.width, f.controlled as usize);
     for j in 0..n {
         let (ia, ib) = (c0 + j, c0 + n + j);
@@ -248,8 +250,12 @@ dispatched! {
     /// ORs into `bad` (bit `k` of word `i`: state `64 i + k` of the block)
     /// every state on which a circuit row differs from what the op leaves
     /// there: ancillae not 0, inputs changed, results wrong.
-    pub(super) fn check<const W: usize>(b: &Block<'_, W>, rows: &[[u64; W]], bad: &mut [u64; W]) {
-        let f = b.plan;
+    pub(super) fn check<const W: usize>(
+        b: &Block<'_, W>,
+        f: &Fused,
+        rows: &[[u64; W]],
+        bad: &mut [u64; W],
+    ) {
         let top = f.controlled as usize + 2 * f.width;
         for ch in 0..W / C {
             let mut acc = V::load(bad, ch);
@@ -266,30 +272,30 @@ dispatched! {
                 V::ONES
             };
             let (acc, flag) = match f.op {
-                Op::Add { .. } => chain(b, rows, ch, on, acc, V::ZERO, |x, y, c| {
+                Op::Add { .. } => chain(b, f, rows, ch, on, acc, V::ZERO, |x, y, c| {
                     let t = x ^ y;
                     (t ^ c, (x & y) | (c & t))
                 }),
                 // y - x, with the borrow of y - x.
-                Op::Sub => chain(b, rows, ch, on, acc, V::ZERO, |x, y, c| {
+                Op::Sub => chain(b, f, rows, ch, on, acc, V::ZERO, |x, y, c| {
                     let t = x ^ y;
                     (t ^ c, (!y & x) | (!t & c))
                 }),
                 // The borrow of x - y: x < y at the end; b is unchanged.
                 Op::Compare(Relation::Less | Relation::GreaterEq) => {
-                    chain(b, rows, ch, V::ZERO, acc, V::ZERO, |x, y, c| {
+                    chain(b, f, rows, ch, V::ZERO, acc, V::ZERO, |x, y, c| {
                         (y, (!x & y) | (!(x ^ y) & c))
                     })
                 }
                 // The borrow of y - x: y < x at the end.
                 Op::Compare(Relation::Greater | Relation::LessEq) => {
-                    chain(b, rows, ch, V::ZERO, acc, V::ZERO, |x, y, c| {
+                    chain(b, f, rows, ch, V::ZERO, acc, V::ZERO, |x, y, c| {
                         (y, (!y & x) | (!(x ^ y) & c))
                     })
                 }
                 // All bits alike so far.
                 Op::Compare(Relation::Equal | Relation::NotEqual) => {
-                    chain(b, rows, ch, V::ZERO, acc, V::ONES, |x, y, c| {
+                    chain(b, f, rows, ch, V::ZERO, acc, V::ONES, |x, y, c| {
                         (y, c & !(x ^ y))
                     })
                 }
@@ -312,11 +318,42 @@ dispatched! {
     }
 }
 
+dispatched! {
+    /// The one-pass check of `|x>|y> -> |x>|y ^ f(x)>` (a function spec
+    /// without a control): ORs into `bad` every state on which an ancilla
+    /// is not 0, an input line changed, or output line `k` differs from its
+    /// input XOR `values[k]`, the spec's output `k` on the block.
+    pub(super) fn check_function<const W: usize>(
+        b: &Block<'_, W>,
+        inputs: usize,
+        values: &[[u64; W]],
+        rows: &[[u64; W]],
+        bad: &mut [u64; W],
+    ) {
+        for ch in 0..W / C {
+            let mut acc = V::load(bad, ch);
+            for &a in b.ancillae {
+                acc = acc | V::load(&rows[a], ch);
+            }
+            for j in 0..inputs {
+                let x = V::load(b.sources[j], ch);
+                acc = acc | (V::load(&rows[b.lines[j]], ch) ^ x);
+            }
+            for (k, v) in values.iter().enumerate() {
+                let y = V::load(b.sources[inputs + k], ch);
+                let want = y ^ V::load(v, ch);
+                acc = acc | (V::load(&rows[b.lines[inputs + k]], ch) ^ want);
+            }
+            bad.as_chunks_mut::<C>().0[ch] = acc.0;
+        }
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
 
-    const W: usize = 64;
+    const W: usize = crate::verify::BLOCK_WORDS;
 
     fn spec(
         op: ArithOp,
@@ -404,20 +441,19 @@ mod tests {
                     }
                 }
                 let block = Block {
-                    plan: &f,
                     lines: &lines,
                     ancillae: &ancillae,
                     sources: &sources,
                 };
                 let mut bad = [0u64; W];
-                check::<W>(d, &block, &rows, &mut bad);
+                check::<W>(d, &block, &f, &rows, &mut bad);
                 assert_eq!(bad, [0; W], "{s:?} block {blk} at {:?}", d.level());
                 // One wrong bit on each line in turn, at a state of its own.
                 for l in 0..=bits {
                     let (i, k) = ((l * 7 + blk as usize) % W, (l * 13) % 64);
                     rows[l][i] ^= 1 << k;
                     let mut bad = [0u64; W];
-                    check::<W>(d, &block, &rows, &mut bad);
+                    check::<W>(d, &block, &f, &rows, &mut bad);
                     rows[l][i] ^= 1 << k;
                     let mut want = [0u64; W];
                     want[i] = 1 << k;
@@ -445,6 +481,62 @@ mod tests {
             for controlled in [false, true] {
                 for r in Relation::all() {
                     agrees(&spec(ArithOp::Compare, width, controlled, false, Some(r)));
+                }
+            }
+        }
+    }
+
+    /// The function check: rows of `|x>|y ^ f(x)>` for given output rows
+    /// pass; one flipped bit on any line (ancilla included) is found at its
+    /// own state and nowhere else.
+    #[test]
+    fn the_function_check_finds_every_wrong_line_at_its_state() {
+        let (n, m) = (11usize, 3usize);
+        let bits = n + m;
+        let lines: Vec<usize> = (0..bits).map(|j| (j * 5) % bits).collect();
+        let ancillae = [bits];
+        let low = low_patterns::<W>(bits);
+        // f_k(x) = parity of (x & mask_k), a function of our own.
+        let masks = [0b1_0110_1011u64, 0b0_1101_0001, 0b1_1111_1111];
+        for d in Dispatch::available() {
+            for blk in 0..(1u64 << bits) / (64 * W as u64) {
+                let base = blk * W as u64;
+                let sources: Vec<&[u64; W]> =
+                    (0..bits).map(|j| source::<W>(&low, j, base)).collect();
+                let mut values = vec![[0u64; W]; m];
+                let mut rows = vec![[0u64; W]; bits + 1];
+                for i in 0..W {
+                    for k in 0..64 {
+                        let state = (base + i as u64) * 64 + k;
+                        let x = state & ((1 << n) - 1);
+                        let mut after = state;
+                        for (o, mask) in masks.iter().enumerate() {
+                            let f = ((x & mask).count_ones() & 1) as u64;
+                            values[o][i] |= f << k;
+                            after ^= f << (n + o);
+                        }
+                        for (j, &l) in lines.iter().enumerate() {
+                            rows[l][i] |= ((after >> j) & 1) << k;
+                        }
+                    }
+                }
+                let block = Block {
+                    lines: &lines,
+                    ancillae: &ancillae,
+                    sources: &sources,
+                };
+                let mut bad = [0u64; W];
+                check_function::<W>(d, &block, n, &values, &rows, &mut bad);
+                assert_eq!(bad, [0; W], "block {blk} at {:?}", d.level());
+                for l in 0..=bits {
+                    let (i, k) = ((l * 11 + blk as usize) % W, (l * 17) % 64);
+                    rows[l][i] ^= 1 << k;
+                    let mut bad = [0u64; W];
+                    check_function::<W>(d, &block, n, &values, &rows, &mut bad);
+                    rows[l][i] ^= 1 << k;
+                    let mut want = [0u64; W];
+                    want[i] = 1 << k;
+                    assert_eq!(bad, want, "line {l} block {blk}");
                 }
             }
         }
