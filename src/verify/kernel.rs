@@ -22,9 +22,11 @@
 //! Measured (`benches/limit.rs`, AVX2): a Toffoli pass runs at the speed of
 //! the bare `t ^= a & b` loop over rows in L1 for 64 and 128 words a row; rows
 //! of 256 words lose 10-30 % once the block leaves L1. Keep
-//! `width x W x 8` bytes within the L1 data cache: `W = 128` up to 32 lines,
-//! `W = 64` up to 64.
-#![allow(dead_code)] // Remove once the verifier's block loop calls this module.
+//! `width x W x 8` bytes within the L1 data cache where it matters: the
+//! verifier's blocks are 128 words (`BLOCK_WORDS`) at every width, measured
+//! best up to 32 lines and no slower at 48 and 64 (the whole check,
+//! `cargo bench --bench limit`).
+#![allow(dead_code)] // Some CPU levels and helpers serve only the benches and tests.
 
 use std::fmt;
 
