@@ -1,7 +1,7 @@
 //! Toffoli counts of functions given as truth tables against the same
 //! functions given as expressions (weight functions, multipliers), and of the
 //! AES S-box as an xor oracle in both uncompute modes, as Markdown tables for
-//! BENCHMARKS.md. Every circuit is verified.
+//! BENCHMARKS.md, and the S-box in place. Every circuit is verified.
 //! Run with `cargo run --release --example table_costs`.
 
 #[path = "../tests/common/tables.rs"]
@@ -73,6 +73,28 @@ fn main() {
     for (method, label) in [(Some(Method::Xag), "xag"), (None, "auto")] {
         for mode in [Uncompute::Toffoli, Uncompute::Measure] {
             let (t, te, q, m, secs) = cost(&s, method, mode);
+            println!(
+                "| {label}, {} uncompute | {t} | {te} | {q} | {m} | {secs:.2} |",
+                mode.name()
+            );
+        }
+    }
+    println!();
+    println!("| AES S-box, in place (permutation of 8 lines) | Toffoli | Toffoli-equivalent | qubits | method | seconds |");
+    println!("|---|---|---|---|---|---|");
+    let images: Vec<String> = aes_sbox().iter().map(|v| v.to_string()).collect();
+    let perm = format!(
+        "kind = \"permutation\"\nwidth = 8\nimages = [{}]\n",
+        images.join(", ")
+    );
+    for (method, label) in [
+        (Some(Method::Xag), "xag (out of place)"),
+        (Some(Method::Transform), "transform"),
+        (Some(Method::TransformBidir), "transform-bidir"),
+        (None, "auto"),
+    ] {
+        for mode in [Uncompute::Toffoli, Uncompute::Measure] {
+            let (t, te, q, m, secs) = cost(&perm, method, mode);
             println!(
                 "| {label}, {} uncompute | {t} | {te} | {q} | {m} | {secs:.2} |",
                 mode.name()
