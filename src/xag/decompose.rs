@@ -7,7 +7,11 @@
 //! (the step is an XOR) or `f` does not depend on `x`. Subfunctions are hashed
 //! by their truth table up to complement (a complement is a free edge), so a
 //! subfunction needed by several nodes or several outputs is built once, and
-//! `x & g` is shared when `g` recurs under the same variable. A few variable
+//! `x & g` is shared when `g` recurs under the same variable. A subfunction
+//! that is the XOR of subfunctions already built on its level (found by
+//! Gaussian elimination over GF(2) on their truth tables, at most
+//! `SPAN_MAX` a level) is that XOR, at no AND: this halves the ANDs of the
+//! AES S-box and of multipliers against hashing alone. A few variable
 //! orders are tried and the one with the fewest ANDs kept (the order of an
 //! ordered Davio diagram sets its size: Kebschull, Schubert, Rosenstiel,
 //! "Multilevel logic synthesis based on functional decision diagrams",
@@ -33,6 +37,9 @@ use std::collections::HashMap;
 /// Most inputs a table may have to be decomposed (past it the caller keeps
 /// its two-level form): `2^20` bits is 128 KiB per table and order.
 pub const DECOMPOSE_MAX_INPUTS: usize = 20;
+
+/// Most subfunctions of one level kept for finding XORs of built ones.
+const SPAN_MAX: usize = 256;
 
 /// A table's bits as words over `k` variables (bits past `2^k` are 0).
 type Words = Vec<u64>;
@@ -73,6 +80,9 @@ struct Builder<'a> {
     vars: Vec<Lit>,
     /// Per level, built subfunctions (normalized so bit 0 is 0).
     memo: Vec<HashMap<Words, Lit>>,
+    /// Per level, built subfunctions in echelon form over GF(2): (pivot
+    /// row, table, literal of the XOR it stands for).
+    span: Vec<Vec<(usize, Words, Lit)>>,
 }
 
 impl Builder<'_> {
@@ -82,6 +92,7 @@ impl Builder<'_> {
             net,
             vars,
             memo: vec![HashMap::new(); levels],
+            span: vec![Vec::new(); levels],
         }
     }
 
@@ -101,6 +112,54 @@ impl Builder<'_> {
         }
     }
 
+    /// `t` reduced by the level's echelon basis: the residual and the XOR
+    /// of the literals used (built only when `build_lit`).
+    fn reduce(&mut self, t: &[u64], k: usize, build_lit: bool) -> (Words, Lit) {
+        let mut r = t.to_vec();
+        let mut lit = Lit::FALSE;
+        for i in 0..self.span[k].len() {
+            let (pivot, ref table, l) = self.span[k][i];
+            if (r[pivot / 64] >> (pivot % 64)) & 1 == 1 {
+                for (a, b) in r.iter_mut().zip(table) {
+                    *a ^= b;
+                }
+                if build_lit {
+                    lit = self.net.xor(lit, l);
+                }
+            }
+        }
+        (r, lit)
+    }
+
+    /// The literal of `t` (normalized) as an XOR of subfunctions already
+    /// built at level `k`, if it is one: an XOR costs no AND.
+    fn in_span(&mut self, t: &[u64], k: usize) -> Option<Lit> {
+        let (r, _) = self.reduce(t, k, false);
+        if is_zero(&r) {
+            Some(self.reduce(t, k, true).1)
+        } else {
+            None
+        }
+    }
+
+    /// Adds the built subfunction `t` (literal `lit`) to the level's basis,
+    /// up to `SPAN_MAX` entries a level so reduction stays cheap.
+    fn add_to_span(&mut self, t: &[u64], k: usize, lit: Lit) {
+        if self.span[k].len() >= SPAN_MAX {
+            return;
+        }
+        let (r, combo) = self.reduce(t, k, true);
+        if let Some(pivot) = r
+            .iter()
+            .enumerate()
+            .find(|(_, &w)| w != 0)
+            .map(|(i, w)| 64 * i + w.trailing_zeros() as usize)
+        {
+            let l = self.net.xor(lit, combo);
+            self.span[k].push((pivot, r, l));
+        }
+    }
+
     /// Builds the function `t` over the first `k` variables. Recursion depth
     /// is at most `k`, itself at most [`DECOMPOSE_MAX_INPUTS`].
     fn build(&mut self, t: &[u64], k: usize) -> Lit {
@@ -110,7 +169,9 @@ impl Builder<'_> {
         let neg = t[0] & 1 == 1;
         let norm: Words = if neg { complement(t, k) } else { t.to_vec() };
         let (f0, f1) = halves(&norm, k);
-        let lit = if f0 == f1 {
+        let lit = if let Some(l) = self.in_span(&norm, k) {
+            l
+        } else if f0 == f1 {
             self.build(&f0, k - 1)
         } else {
             let g: Words = f0.iter().zip(&f1).map(|(a, b)| a ^ b).collect();
@@ -126,6 +187,7 @@ impl Builder<'_> {
             };
             self.net.xor(base, xg)
         };
+        self.add_to_span(&norm, k, lit);
         self.memo[k].insert(norm, lit);
         if neg {
             lit.inverted()
@@ -419,123 +481,5 @@ pub fn tables_into(net: &mut Network, tables: &[&TruthTable]) -> Vec<Lit> {
 }
 
 #[cfg(test)]
-mod tests {
-    use super::*;
-    use proptest::prelude::*;
-
-    fn value(net: &Network, l: Lit, x: u64) -> bool {
-        net.simulate(x)[l.node] ^ l.neg
-    }
-
-    fn check(n: usize, tables: &[TruthTable]) -> Result<(), TestCaseError> {
-        let mut net = Network::new(n);
-        let refs: Vec<&TruthTable> = tables.iter().collect();
-        let lits = tables_into(&mut net, &refs);
-        for x in 0..1u64 << n {
-            let v = net.simulate(x);
-            for (t, l) in tables.iter().zip(&lits) {
-                prop_assert_eq!(v[l.node] ^ l.neg, t.get(x as usize), "row {}", x);
-            }
-        }
-        Ok(())
-    }
-
-    proptest! {
-        #![proptest_config(ProptestConfig::with_cases(96))]
-        /// Random tables: the network computes every table on every row.
-        #[test]
-        fn random_tables_keep_their_function(
-            (n, bits) in (0usize..=9, 1usize..=4).prop_flat_map(|(n, m)| {
-                (Just(n), prop::collection::vec(prop::collection::vec(any::<bool>(), 1 << n), m))
-            })
-        ) {
-            let tables: Vec<TruthTable> = bits
-                .iter()
-                .map(|b| TruthTable::from_fn(n, |x| b[x as usize]))
-                .collect();
-            check(n, &tables)?;
-        }
-
-        /// Random symmetric tables (a value per count of ones), mixed with a
-        /// random one: the symmetric route keeps the function too.
-        #[test]
-        fn symmetric_tables_keep_their_function(
-            (n, profiles, other) in (3usize..=9).prop_flat_map(|n| {
-                (
-                    Just(n),
-                    prop::collection::vec(prop::collection::vec(any::<bool>(), n + 1), 1..=3),
-                    prop::collection::vec(any::<bool>(), 1 << n),
-                )
-            })
-        ) {
-            let mut tables: Vec<TruthTable> = profiles
-                .iter()
-                .map(|p| TruthTable::from_fn(n, |x| p[x.count_ones() as usize]))
-                .collect();
-            tables.push(TruthTable::from_fn(n, |x| other[x as usize]));
-            check(n, &tables)?;
-        }
-    }
-
-    /// The count of ones of `n` bits takes `n - popcount(n)` ANDs (Boyar and
-    /// Peralta, TCS 2008, the bound they prove tight; from memory) and is
-    /// right on every row.
-    #[test]
-    fn count_of_ones_meets_the_published_and_count() {
-        for n in 1..=12usize {
-            let mut net = Network::new(n);
-            let bits: Vec<Lit> = (0..n).map(|j| net.input(j)).collect();
-            net.outputs = count_ones(&mut net, &bits);
-            assert_eq!(and_count(&net), n - n.count_ones() as usize, "n = {n}");
-            for x in 0..1u64 << n {
-                let mut w = 0u64;
-                for (i, &l) in net.outputs.iter().enumerate() {
-                    w |= (value(&net, l, x) as u64) << i;
-                }
-                assert_eq!(w, x.count_ones() as u64, "n = {n}, row {x}");
-            }
-        }
-    }
-
-    /// The weight function (binary count of ones) given as a table reaches
-    /// the count's `n - popcount(n)` ANDs (Boyar and Peralta, TCS 2008; from
-    /// memory): the counts past `n` are filled so each output is a count
-    /// bit itself.
-    #[test]
-    fn weight_tables_cost_what_the_count_costs() {
-        for n in 3..=12usize {
-            let bits = (usize::BITS - n.leading_zeros()) as usize;
-            let tables: Vec<TruthTable> = (0..bits)
-                .map(|j| TruthTable::from_fn(n, |x| (x.count_ones() >> j) & 1 == 1))
-                .collect();
-            let refs: Vec<&TruthTable> = tables.iter().collect();
-            let mut net = Network::new(n);
-            net.outputs = tables_into(&mut net, &refs);
-            assert_eq!(and_count(&net), n - n.count_ones() as usize, "n = {n}");
-        }
-    }
-
-    /// The algebraic normal form of small functions (common practice):
-    /// `x0 & x1` is the one monomial `{0, 1}`, `!x0` is `1 ^ x0`, and
-    /// majority of three is `x0x1 ^ x0x2 ^ x1x2`.
-    #[test]
-    fn algebraic_normal_form_of_small_functions() {
-        assert_eq!(anf(0b1000, 2), 0b1000);
-        assert_eq!(anf(0b0101, 2), 0b0011);
-        assert_eq!(anf(0b1110_1000, 3), (1 << 3) | (1 << 5) | (1 << 6));
-    }
-
-    /// Parity needs no AND and a single AND needs one: the diagram's free
-    /// steps (an affine step is an XOR) and its sharing across outputs
-    /// (the same table twice costs once). Common practice.
-    #[test]
-    fn affine_steps_are_free_and_outputs_share() {
-        let n = 8;
-        let parity = TruthTable::from_fn(n, |x| x.count_ones() % 2 == 1);
-        let and2 = TruthTable::from_fn(n, |x| x & 3 == 3);
-        let mut net = Network::new(n);
-        net.outputs = tables_into(&mut net, &[&parity, &and2, &and2, &parity]);
-        assert_eq!(and_count(&net), 1);
-        assert_eq!(net.outputs[1], net.outputs[2]);
-    }
-}
+#[path = "decompose_tests.rs"]
+mod tests;
