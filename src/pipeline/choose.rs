@@ -10,6 +10,10 @@ use crate::spec::{Spec, SpecBody};
 use crate::synth::{network_of, Method, SynthError, EXACT_ESOP_MAX_INPUTS, PEBBLE_SAT_MAX_NODES};
 use crate::verify::{Verdict, VerifyError};
 
+/// Widest permutation for which `auto` also tries method `xag` (out of
+/// place through two xor oracles); `--method xag` takes up to 16 lines.
+pub const AUTO_OUT_OF_PLACE_MAX_LINES: usize = 10;
+
 /// Every method that applies to `spec`, cheapest first; `thorough` adds the
 /// slow ones (used by `compare`).
 pub fn candidates(spec: &Spec, thorough: bool) -> Vec<Method> {
@@ -41,6 +45,14 @@ pub fn candidates(spec: &Spec, thorough: bool) -> Vec<Method> {
                 Method::Linear,
             ]
         }
+        // Out of place through two xor oracles (`xag`) from 5 lines, up to
+        // the width where its two decompositions stay under a few seconds.
+        SpecBody::Permutation(p) if p.width() <= AUTO_OUT_OF_PLACE_MAX_LINES => vec![
+            Method::Transform,
+            Method::TransformBidir,
+            Method::Linear,
+            Method::Xag,
+        ],
         SpecBody::Permutation(_) => vec![Method::Transform, Method::TransformBidir, Method::Linear],
         // Small registers: the same map as a table, by permutation synthesis.
         SpecBody::Arithmetic(a)

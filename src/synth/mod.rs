@@ -15,6 +15,7 @@ mod exorlink;
 mod hierarchical;
 mod linear;
 mod network;
+mod out_of_place;
 mod pebble;
 mod reed_muller;
 mod transform;
@@ -35,6 +36,7 @@ pub use esop_exact::{exact_esop, ExactEsop, EXACT_ESOP_MAX_INPUTS};
 pub use exorlink::exorlink_minimize;
 pub use hierarchical::{hierarchical, PIECE_INPUTS};
 pub use network::network_of;
+pub use out_of_place::{out_of_place, OUT_OF_PLACE_MAX_LINES};
 pub use reed_muller::{reed_muller, reed_muller_coefficients};
 pub use transform::{
     transform, transform_function, transform_with, xor_embedding, TRANSFORM_MAX_LINES,
@@ -83,9 +85,10 @@ pub enum Method {
         message = "functions (and small output-writing arithmetic): logic network computed, copied, uncomputed; a qubit budget schedules recomputation"
     )]
     Bennett,
-    /// The network rewritten to fewer ANDs, then computed, copied, uncomputed.
+    /// The network rewritten to fewer ANDs, then computed, copied, uncomputed;
+    /// a permutation out of place through two such xor oracles.
     #[strum(
-        message = "functions: logic network rewritten to fewest ANDs (cut rewriting with 4-input AND-minimal circuits), then as bennett"
+        message = "functions: logic network rewritten to fewest ANDs (cut rewriting with 4-input AND-minimal circuits), then as bennett; permutations of at most 16 lines: out of place through the xor oracles of P and its inverse, then a swap"
     )]
     Xag,
     /// Network cut into small pieces, each from its minimum ESOP, glued by Bennett.
@@ -340,6 +343,11 @@ fn synthesize_plain(
             check_gates(&c, limits)?;
             Ok(c.into())
         }
+        (SpecBody::Permutation(p), Method::Xag) => {
+            let s = out_of_place(p, limits, progress)?;
+            check_gates(&s.circuit, limits)?;
+            Ok(s)
+        }
         (SpecBody::Permutation(p), Method::Exact) => exact::permutation(p, limits, progress),
         (SpecBody::Permutation(p), Method::Linear) => {
             let c = linear::linear(p).ok_or(SynthError::NotApplicable {
@@ -374,7 +382,7 @@ fn synthesize_plain(
         (SpecBody::Permutation(_), m) => Err(SynthError::NotApplicable {
             method: m.name(),
             kind: "permutation",
-            hint: "use transform, transform-bidir or auto",
+            hint: "use transform, transform-bidir, xag or auto",
         }),
         (SpecBody::Arithmetic(a), Method::Transform | Method::TransformBidir) => {
             // The same map as a permutation of the registers' lines.

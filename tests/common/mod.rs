@@ -1,6 +1,10 @@
 //! Shared proptest generators and test-side reference models (independent of the library's).
 #![allow(dead_code)]
 
+pub mod tables;
+
+pub use tables::hex_table;
+
 use proptest::prelude::*;
 
 /// A test-side expression: rendered to text for the spec, evaluated on its own.
@@ -77,19 +81,6 @@ pub struct TFunction {
 
 pub fn input_names(n: usize) -> Vec<String> {
     (0..n).map(|i| format!("in{i}")).collect()
-}
-
-/// The spec's table string: bit i of the integer is f(i), most significant digit first.
-pub fn hex_table(bits: &[bool]) -> String {
-    let digits = (bits.len() / 4).max(1);
-    let mut s = String::from("0x");
-    for k in (0..digits).rev() {
-        let v = (0..4).fold(0u32, |v, b| {
-            v | (bits.get(4 * k + b).copied().unwrap_or(false) as u32) << b
-        });
-        s.push(char::from_digit(v, 16).unwrap());
-    }
-    s
 }
 
 impl TFunction {
