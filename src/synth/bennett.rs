@@ -55,29 +55,33 @@ pub(super) fn plan(net: &Network) -> Plan {
     let nodes = net.nodes();
     let mut copies = Vec::new();
     for &out in &net.outputs {
-        // XOR trees are flattened: a leaf reached an even number of times cancels.
-        let mut parity: BTreeMap<usize, bool> = BTreeMap::new();
+        // XOR trees are flattened: a leaf reached an even number of times
+        // cancels. Shared XOR nodes are visited once, highest node first
+        // (operands come before the nodes that use them), carrying the
+        // parity of the paths that reach them: walking them as a tree would
+        // take time exponential in the depth of shared XORs.
+        let mut frontier: BTreeMap<usize, bool> = BTreeMap::new();
+        let mut leaves: Vec<usize> = Vec::new();
         let mut neg = out.neg;
-        let mut stack = vec![out.node];
-        while let Some(v) = stack.pop() {
+        frontier.insert(out.node, true);
+        while let Some((v, odd)) = frontier.pop_last() {
+            if !odd {
+                continue;
+            }
             match nodes[v] {
                 Node::Xor(a, b) => {
+                    debug_assert!(a.node < v && b.node < v, "operands precede their node");
                     neg ^= a.neg ^ b.neg;
-                    stack.push(a.node);
-                    stack.push(b.node);
+                    for u in [a.node, b.node] {
+                        let e = frontier.entry(u).or_insert(false);
+                        *e = !*e;
+                    }
                 }
                 Node::Zero => {}
-                _ => {
-                    let e = parity.entry(v).or_insert(false);
-                    *e = !*e;
-                }
+                _ => leaves.push(v),
             }
         }
-        let leaves: Vec<usize> = parity
-            .into_iter()
-            .filter(|(_, odd)| *odd)
-            .map(|(v, _)| v)
-            .collect();
+        leaves.sort_unstable();
         copies.push((leaves, neg));
     }
     let internal = |v: usize| matches!(nodes[v], Node::And(..) | Node::Xor(..));
