@@ -399,7 +399,7 @@ def test_the_readme_example_runs_as_written(monkeypatch):
     ns = {}
     exec(compile(block, "README.md", "exec"), ns)
     vote = ns["vote"]
-    assert (vote.verified, vote.method, vote.cost["toffoli"]) == (True, "xag", 2)
+    assert (vote.verified, vote.method, vote.cost["toffoli"]) == (True, "bennett", 2)
     assert vote.lines[3]["qubit"] == "y[0]" and vote.lines[3]["label"] == "most"
     assert ns["spec"]["table"] == {"most": "0xe8"}
     assert ns["rows"] and all("method" in r for r in ns["rows"])
