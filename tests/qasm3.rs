@@ -258,6 +258,22 @@ fn the_measured_uncompute_is_an_if_block() {
     assert_eq!(e.located().unwrap().location.line, at, "{e}");
 }
 
+/// Each case, after `head`, is refused at its line and column with a message
+/// that says `what`.
+fn refused_at(head: &str, cases: &[(&str, usize, usize, &str)]) {
+    for &(body, line, col, what) in cases {
+        let t = format!("{head}{body}");
+        let e = read_qasm3_with("b.qasm", &t, &ReadLimits::default()).unwrap_err();
+        let l = e.located().unwrap_or_else(|| panic!("{body}: {e}"));
+        assert_eq!(
+            (l.location.line, l.location.column),
+            (line, col),
+            "{body}: {e}"
+        );
+        assert!(e.to_string().contains(what), "{body}: {e}");
+    }
+}
+
 /// Mistakes in an OpenQASM 3 file are refused at their line and column,
 /// and the gate budget is checked before a definition is expanded.
 #[test]
@@ -271,17 +287,7 @@ fn bad_qasm3_is_refused_at_its_place() {
         ("cx q[0], q[0];\n", 4, 1, "same qubit"),
         ("gate g a { x b; }\n", 4, 14, "not an argument"),
     ];
-    for (body, line, col, what) in cases {
-        let t = format!("{head}{body}");
-        let e = read_qasm3_with("b.qasm", &t, &ReadLimits::default()).unwrap_err();
-        let l = e.located().unwrap_or_else(|| panic!("{e}"));
-        assert_eq!(
-            (l.location.line, l.location.column),
-            (line, col),
-            "{body}: {e}"
-        );
-        assert!(e.to_string().contains(what), "{body}: {e}");
-    }
+    refused_at(head, &cases);
     let e = read_qasm3_with("v.qasm", "OPENQASM 2.0;\n", &ReadLimits::default()).unwrap_err();
     assert!(e.to_string().contains("OPENQASM 3.0"), "{e}");
     // 2^20 gates from ten doublings, refused before expansion at 1,000.
@@ -613,17 +619,7 @@ fn bad_subroutines_are_refused_at_their_place() {
             "already",
         ),
     ];
-    for (body, line, col, what) in cases {
-        let t = format!("{head}{body}");
-        let e = read_qasm3_with("b.qasm", &t, &ReadLimits::default()).unwrap_err();
-        let l = e.located().unwrap_or_else(|| panic!("{body}: {e}"));
-        assert_eq!(
-            (l.location.line, l.location.column),
-            (line, col),
-            "{body}: {e}"
-        );
-        assert!(e.to_string().contains(what), "{body}: {e}");
-    }
+    refused_at(head, &cases);
     // 2^20 gates from twenty doubling subroutines: refused before anything
     // is expanded, at the first body over the budget (d10, 1,024 gates).
     let mut t = String::from(head);
